@@ -1,0 +1,128 @@
+// clausewright: the method table and dispatch by method.
+//
+// One registry of every encoding: its name (the command-line tool lists and
+// selects methods by these names), the constraint kinds it applies to, and
+// whether it is arc-consistent. The arc-consistency column is what the test
+// harness measures (tests/test_method_table.cpp fails when a claim here and
+// the measurement disagree). Size formulas are given where one is published.
+#pragma once
+
+#include <array>
+#include <cstdint>
+#include <optional>
+#include <span>
+#include <string>
+#include <string_view>
+
+#include "constraint.hpp"
+#include "encodings/common.hpp"
+#include "encodings/pairwise.hpp"
+#include "encodings/sequential_counter.hpp"
+#include "error.hpp"
+
+namespace clausewright {
+
+enum class method_id : std::uint8_t {
+  pairwise,
+  sequential_counter,
+};
+
+// Kinds a method applies to, as a bit set.
+enum class applies : std::uint8_t { at_most_one = 1, cardinality = 2, linear = 4 };
+[[nodiscard]] constexpr std::uint8_t operator|(applies a, applies b) noexcept {
+  return static_cast<std::uint8_t>(static_cast<std::uint8_t>(a) | static_cast<std::uint8_t>(b));
+}
+[[nodiscard]] constexpr std::uint8_t operator|(std::uint8_t a, applies b) noexcept {
+  return static_cast<std::uint8_t>(a | static_cast<std::uint8_t>(b));
+}
+
+struct method_info {
+  method_id id;
+  std::string_view name;       // the name users select it by
+  std::uint8_t applies_to;     // bit set of `applies`
+  bool arc_consistent;         // as measured by the harness
+  std::string_view source;     // the publication it follows
+  std::string_view size_note;  // closed-form size where published, else empty
+
+  [[nodiscard]] constexpr bool applies_to_kind(applies a) const noexcept {
+    return (applies_to & static_cast<std::uint8_t>(a)) != 0;
+  }
+};
+
+inline constexpr std::array method_table{
+    method_info{method_id::pairwise, "pairwise", static_cast<std::uint8_t>(applies::at_most_one), true,
+                "folklore (binomial encoding)", "0 auxiliary variables, n(n-1)/2 clauses"},
+    method_info{method_id::sequential_counter, "sequential-counter", applies::at_most_one | applies::cardinality, true,
+                "Sinz 2005 (CP)", "at most k, 1 <= k < n: k(n-1) auxiliary variables, 2nk + n - 3k - 1 clauses"},
+};
+
+[[nodiscard]] constexpr const method_info& info(method_id id) noexcept {
+  for (const auto& m : method_table)
+    if (m.id == id) return m;
+  return method_table[0];  // unreachable: every id is in the table
+}
+
+[[nodiscard]] inline std::optional<method_id> find_method(std::string_view name) noexcept {
+  for (const auto& m : method_table)
+    if (m.name == name) return m.id;
+  return std::nullopt;
+}
+
+// The method for a name, or an error listing the valid names.
+[[nodiscard]] inline method_id method_by_name(std::string_view name) {
+  if (auto id = find_method(name)) return *id;
+  std::string valid;
+  for (const auto& m : method_table) {
+    if (!valid.empty()) valid += ", ";
+    valid += m.name;
+  }
+  throw error(error_id::unknown_method, "unknown method '" + std::string(name) + "'; valid methods: " + valid);
+}
+
+// Whether `id` can encode `c` (constants and single clauses every method can).
+[[nodiscard]] constexpr bool can_encode(method_id id, const normalized_constraint& c) noexcept {
+  const method_info& m = info(id);
+  switch (c.kind) {
+    case constraint_kind::constant_true:
+    case constraint_kind::constant_false:
+    case constraint_kind::clause: return true;
+    case constraint_kind::at_most_one:
+    case constraint_kind::exactly_one:
+      return m.applies_to_kind(applies::at_most_one) || m.applies_to_kind(applies::cardinality) ||
+             m.applies_to_kind(applies::linear);
+    case constraint_kind::cardinality:
+      return m.applies_to_kind(applies::cardinality) || m.applies_to_kind(applies::linear);
+    case constraint_kind::linear: return m.applies_to_kind(applies::linear);
+  }
+  return false;
+}
+
+// Encodes a normalised constraint with the given method: its units as unit
+// clauses, the empty clause when it is impossible, nothing when it is
+// trivially true, and otherwise the method's clauses.
+template <class Sink>
+void encode_with(method_id id, Sink& out, variable_pool& pool, const normalized_constraint& c,
+                 const encode_options& options = {}) {
+  static_assert(check_clause_sink<Sink>());
+  if (c.kind == constraint_kind::constant_false) {
+    out.add_clause(std::span<const literal>());
+    return;
+  }
+  for (const literal u : c.units) emit(out, u);
+  switch (c.kind) {
+    case constraint_kind::constant_true: return;
+    case constraint_kind::clause: out.add_clause(std::span<const literal>(c.literals)); return;
+    default: break;
+  }
+  if (!can_encode(id, c))
+    throw error(error_id::method_not_applicable,
+                "method " + std::string(info(id).name) + " cannot encode a " + std::string(to_string(c.kind)) +
+                    " constraint",
+                c.where());
+  switch (id) {
+    case method_id::pairwise: encode_pairwise(out, pool, c, options); return;
+    case method_id::sequential_counter: encode_sequential_counter(out, pool, c, options); return;
+  }
+}
+
+}  // namespace clausewright

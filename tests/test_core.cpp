@@ -1,0 +1,262 @@
+// Core types and sinks: literals, the pool, the in-memory, counting, guarded
+// and DIMACS sinks. DIMACS output is read back by CaDiCaL's own parser
+// (an independent reader of the DIMACS Challenge format).
+#include <cadical.hpp>
+#include <clausewright/clausewright.hpp>
+#include <cstdio>
+#include <filesystem>
+#include <fstream>
+#include <gtest/gtest.h>
+#include <sstream>
+
+namespace cw = clausewright;
+using cw::lit;
+
+TEST(Literal, DimacsConvention) {
+  constexpr cw::literal a = lit(7);
+  static_assert(a.var() == 7 && !a.negative());
+  static_assert((~a).dimacs() == -7 && (~a).negative() && (~a).var() == 7);
+  static_assert(~~a == a);
+  EXPECT_FALSE(cw::literal().valid());
+  EXPECT_EQ(cw::make_literal(-3).dimacs(), -3);
+}
+
+TEST(Literal, ZeroAndOutOfRangeAreErrors) {
+  EXPECT_THROW((void)cw::make_literal(0), cw::error);
+  EXPECT_THROW((void)cw::make_literal(std::int64_t{1} << 40), cw::error);
+  try {
+    (void)cw::make_literal(0);
+  } catch (const cw::error& e) {
+    EXPECT_EQ(e.id(), cw::error_id::invalid_literal);
+  }
+}
+
+TEST(Pool, FreshVariablesComeAfterTheUsers) {
+  cw::variable_pool pool(10);
+  EXPECT_EQ(pool.fresh().dimacs(), 11);
+  EXPECT_EQ(pool.fresh_block(5).dimacs(), 12);
+  EXPECT_EQ(pool.top(), 16);
+  EXPECT_EQ(pool.auxiliary_variables(), 6);
+  EXPECT_EQ(pool.user_variables(), 10);
+  // Claiming more user variables after auxiliaries were handed out would
+  // collide with them.
+  EXPECT_THROW(pool.reserve_user(20), cw::error);
+}
+
+TEST(Pool, RunsOutWithAnErrorNotAWrap) {
+  cw::variable_pool pool(cw::max_variable - 1);
+  (void)pool.fresh();
+  EXPECT_THROW((void)pool.fresh(), cw::error);
+  EXPECT_THROW((void)pool.fresh_block(2), cw::error);
+}
+
+TEST(Sinks, CnfBufferIsFlat) {
+  cw::cnf_buffer cnf;
+  cnf.add_clause({lit(1), lit(-2)});
+  cnf.add_clause({});
+  cnf.add_clause({lit(3), lit(4), lit(-5)});
+  ASSERT_EQ(cnf.size(), 3U);
+  EXPECT_EQ(cnf[0].size(), 2U);
+  EXPECT_EQ(cnf[1].size(), 0U);
+  EXPECT_EQ(cnf[2][2], lit(-5));
+  EXPECT_EQ(cnf.literals().size(), 5U);
+  EXPECT_EQ(cnf.max_variable(), 5);
+  EXPECT_TRUE(cnf.has_empty_clause());
+  std::size_t seen = 0;
+  for (auto clause : cnf) seen += clause.size();
+  EXPECT_EQ(seen, 5U);
+}
+
+TEST(Sinks, CountingSinkCountsWithoutStoring) {
+  cw::counting_sink count;
+  cw::emit(count, lit(1), lit(2));
+  cw::emit(count, lit(1), lit(2), lit(3), lit(4));
+  cw::emit(count, lit(-1));
+  EXPECT_EQ(count.clauses(), 3U);
+  EXPECT_EQ(count.literals(), 7U);
+  EXPECT_EQ(count.longest_clause(), 4U);
+  static_assert(sizeof(cw::counting_sink) == 3 * sizeof(std::uint64_t));
+}
+
+TEST(Sinks, GuardAppendsToEveryClause) {
+  cw::cnf_buffer cnf;
+  cw::guarded_sink guarded(cnf, lit(-9));
+  cw::emit(guarded, lit(1));
+  cw::emit(guarded, lit(2), lit(3));
+  ASSERT_EQ(cnf.size(), 2U);
+  EXPECT_EQ(cnf[0].size(), 2U);
+  EXPECT_EQ(cnf[0][1], lit(-9));
+  EXPECT_EQ(cnf[1][2], lit(-9));
+}
+
+TEST(Sinks, GuardedConstraintIsConditional) {
+  // r -> (x1 + x2 + x3 <= 1) with the guard ~r: checked by CaDiCaL.
+  cw::variable_pool pool(4);
+  cw::cnf_buffer cnf;
+  cw::guarded_sink guarded(cnf, lit(-4));
+  cw::encode_with(cw::method_id::sequential_counter, guarded, pool,
+                  cw::normalize_cardinality(std::vector{lit(1), lit(2), lit(3)}, cw::relation::le, 1));
+  CaDiCaL::Solver s;
+  for (auto c : cnf) {
+    for (auto l : c) s.add(l.dimacs());
+    s.add(0);
+  }
+  s.assume(1), s.assume(2), s.assume(-4);
+  EXPECT_EQ(s.solve(), 10) << "with r false the constraint must not bind";
+  s.assume(1), s.assume(2), s.assume(4);
+  EXPECT_EQ(s.solve(), 20) << "with r true two of three must be refused";
+}
+
+TEST(Sinks, DynamicSinkAdapter) {
+  cw::counting_sink count;
+  cw::sink_adapter<cw::counting_sink> adapter(count);
+  cw::dynamic_sink& dyn = adapter;
+  cw::emit(dyn, lit(1), lit(2));
+  EXPECT_EQ(count.clauses(), 1U);
+}
+
+namespace {
+std::string temp_path(const std::string& stem) {
+  return (std::filesystem::temp_directory_path() / (stem + "-" + std::to_string(::getpid()))).string();
+}
+
+// Reads a DIMACS file with CaDiCaL's strict parser and returns its verdict.
+int solve_file(const std::string& path, int& vars) {
+  CaDiCaL::Solver s;
+  const char* err = s.read_dimacs(path.c_str(), vars, 1);
+  if (err) {
+    ADD_FAILURE() << "CaDiCaL rejected " << path << ": " << err;
+    return -1;
+  }
+  return s.solve();
+}
+}  // namespace
+
+TEST(Dimacs, ExactHeaderToStream) {
+  std::ostringstream os;
+  cw::ostream_output out(os);
+  cw::dimacs_writer w(out);
+  w.comment("two clauses");
+  w.begin(3, 2);
+  cw::emit(w, lit(1), lit(-3));
+  cw::emit(w, lit(2));
+  w.finish(3);
+  EXPECT_EQ(os.str(), "c two clauses\np cnf 3 2\n1 -3 0\n2 0\n");
+}
+
+TEST(Dimacs, ExactHeaderMismatchIsAnError) {
+  std::ostringstream os;
+  cw::ostream_output out(os);
+  cw::dimacs_writer w(out);
+  w.begin(3, 2);
+  cw::emit(w, lit(1));
+  EXPECT_THROW(w.finish(3), cw::error);
+}
+
+TEST(Dimacs, PatchedHeaderIsReadByCaDiCaL) {
+  const std::string path = temp_path("cw-patched.cnf");
+  {
+    cw::atomic_file_output out(path);
+    cw::dimacs_writer w(out);
+    w.comment("pigeonhole 3 into 2, unsatisfiable");
+    w.begin_patched();
+    // p(i,h) = 2*(i-1)+h: each pigeon in a hole, no hole twice.
+    for (int i = 1; i <= 3; ++i) cw::emit(w, lit(2 * (i - 1) + 1), lit(2 * (i - 1) + 2));
+    for (int h = 1; h <= 2; ++h)
+      for (int i = 1; i <= 3; ++i)
+        for (int j = i + 1; j <= 3; ++j) cw::emit(w, lit(-(2 * (i - 1) + h)), lit(-(2 * (j - 1) + h)));
+    w.finish(6);
+    out.commit();
+  }
+  int vars = 0;
+  EXPECT_EQ(solve_file(path, vars), 20);
+  EXPECT_EQ(vars, 6);
+  std::ifstream in(path);
+  std::string first, second;
+  std::getline(in, first);
+  std::getline(in, second);
+  EXPECT_EQ(second.substr(0, 12), "p cnf 6 9   ");
+  std::filesystem::remove(path);
+}
+
+TEST(Dimacs, LargeOutputRoundTripsThroughCaDiCaL) {
+  // Enough clauses to cross many buffer flushes; satisfiable by x_i = true.
+  const std::string path = temp_path("cw-large.cnf");
+  const int n = 200000;
+  {
+    cw::atomic_file_output out(path);
+    cw::dimacs_writer w(out);
+    w.begin_patched();
+    for (int i = 1; i < n; ++i) cw::emit(w, lit(-i), lit(i + 1), lit(-(i % 97) - 1));
+    cw::emit(w, lit(1));
+    w.finish(n);
+    EXPECT_EQ(w.clauses(), static_cast<std::uint64_t>(n));
+    out.commit();
+  }
+  int vars = 0;
+  EXPECT_EQ(solve_file(path, vars), 10);
+  EXPECT_EQ(vars, n);
+  std::filesystem::remove(path);
+}
+
+TEST(Dimacs, AtomicOutputLeavesNothingWithoutCommit) {
+  const std::string path = temp_path("cw-aborted.cnf");
+  std::string temporary;
+  {
+    cw::atomic_file_output out(path);
+    temporary = out.temporary_path();
+    cw::dimacs_writer w(out);
+    w.begin_patched();
+    cw::emit(w, lit(1));
+    EXPECT_TRUE(std::filesystem::exists(temporary));
+  }
+  EXPECT_FALSE(std::filesystem::exists(path));
+  EXPECT_FALSE(std::filesystem::exists(temporary));
+}
+
+TEST(Errors, PositionIsInTheMessage) {
+  const cw::error e(cw::error_id::overflow, "sum overflows", cw::at_constraint(4, "capacity"));
+  EXPECT_STREQ(e.what(), "constraint 4 (capacity): sum overflows");
+  cw::error_position p;
+  p.file = "model.opb";
+  p.line = 3;
+  p.column = 14;
+  EXPECT_STREQ(cw::error(cw::error_id::parse, "expected ';'", p).what(), "model.opb:3:14: expected ';'");
+}
+
+TEST(Encoder, StreamsAndReportsSizes) {
+  cw::variable_pool pool(6);
+  cw::cnf_buffer cnf;
+  cw::encoder enc(cnf, pool);
+  const std::vector<cw::literal> xs{lit(1), lit(2), lit(3), lit(4), lit(5), lit(6)};
+  const auto r0 = enc.at_most(xs, 2, cw::method_id::sequential_counter);
+  EXPECT_EQ(r0.index, 0U);
+  EXPECT_EQ(r0.kind, cw::constraint_kind::cardinality);
+  // Sinz 2005: 2nk + n - 3k - 1 clauses, k(n-1) auxiliary variables.
+  EXPECT_EQ(r0.size.clauses, 2U * 6 * 2 + 6 - 3 * 2 - 1);
+  EXPECT_EQ(r0.size.variables, 2U * 5);
+  const auto r1 = enc.at_most_one({lit(1), lit(2), lit(3)});
+  EXPECT_EQ(r1.index, 1U);
+  EXPECT_TRUE(r1.method.has_value());
+  EXPECT_EQ(cnf.size(), r0.size.clauses + r1.size.clauses);
+}
+
+TEST(Encoder, BadInputNamesTheConstraint) {
+  cw::variable_pool pool(3);
+  cw::cnf_buffer cnf;
+  cw::encoder enc(cnf, pool);
+  enc.at_most_one({lit(1), lit(2)});
+  try {
+    enc.at_most(std::vector{lit(1), lit(2)}, -1);
+    FAIL() << "k < 0 must throw";
+  } catch (const cw::error& e) {
+    EXPECT_EQ(e.id(), cw::error_id::invalid_bound);
+    EXPECT_EQ(e.where().constraint, 1U);
+    EXPECT_NE(std::string(e.what()).find("constraint 1"), std::string::npos);
+  }
+  EXPECT_THROW(enc.exactly_one(std::vector<cw::literal>{}), cw::error);
+  EXPECT_THROW(enc.at_most_one({lit(1), cw::literal()}), cw::error);  // literal 0
+  EXPECT_THROW(enc.at_most_one({lit(1), lit(8)}), cw::error);         // not in the pool
+  EXPECT_THROW(enc.linear({{INT64_MAX, lit(1)}, {INT64_MAX, lit(2)}}, cw::relation::le, 5), cw::error);
+  EXPECT_THROW(enc.linear({{3, lit(1)}, {2, lit(2)}}, cw::relation::le, 3, cw::method_id::pairwise), cw::error);
+}
