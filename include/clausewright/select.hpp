@@ -119,6 +119,9 @@ namespace detail {
     if (best == nullptr || detail::smaller(m, *best)) best = &m;
     if (info(m.method).arc_consistent && (best_ac == nullptr || detail::smaller(m, *best_ac))) best_ac = &m;
   }
+  if (measured.empty())
+    throw error(error_id::method_not_applicable,
+                "no method in the table encodes a " + std::string(to_string(c.kind)) + " constraint", c.where());
   if (best == nullptr)
     throw error(error_id::over_budget, "every applicable method is over its budget for this constraint", c.where());
   switch (policy) {

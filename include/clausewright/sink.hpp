@@ -16,6 +16,8 @@
 #include <span>
 #include <vector>
 
+#include <boost/container/small_vector.hpp>
+
 #include "config.hpp"
 #include "literal.hpp"
 
@@ -166,6 +168,9 @@ class guarded_sink {
  public:
   guarded_sink(Sink& inner, literal guard) : inner_(inner) { guards_.push_back(guard); }
   guarded_sink(Sink& inner, std::span<const literal> guards) : inner_(inner), guards_(guards.begin(), guards.end()) {}
+  guarded_sink(const guarded_sink&) = delete;
+  guarded_sink& operator=(const guarded_sink&) = delete;
+  ~guarded_sink() = default;
 
   void add_clause(std::span<const literal> clause) {
     scratch_.assign(clause.begin(), clause.end());
@@ -176,8 +181,8 @@ class guarded_sink {
 
  private:
   Sink& inner_;
-  std::vector<literal> guards_;
-  std::vector<literal> scratch_;  // reused: no allocation per clause once warm
+  boost::container::small_vector<literal, 2> guards_;  // usually one guard: no heap
+  std::vector<literal> scratch_;                       // reused: no allocation per clause once warm
 };
 
 // A runtime sink, for code that cannot be a template over the sink type.

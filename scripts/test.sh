@@ -1,0 +1,49 @@
+#!/usr/bin/env bash
+# Builds and runs every test: the Release build with warnings as errors under
+# g++, the same under clang++, the AddressSanitizer + UBSan build, the
+# packaging consumers (find_package and add_subdirectory), and the fuzzers for
+# a bounded time. Set CLAUSEWRIGHT_FUZZ_SECONDS=0 to skip the fuzz step.
+set -euo pipefail
+root=$(cd "$(dirname "$0")/.." && pwd)
+cd "$root"
+bash scripts/install-deps.sh
+jobs=${CLAUSEWRIGHT_JOBS:-$(nproc)}
+started=$SECONDS
+step() { printf '\n=== %s (%ds)\n' "$*" $((SECONDS - started)); }
+
+step "g++ Release build, -Werror"
+cmake -S . -B build/gcc -DCMAKE_BUILD_TYPE=Release -DCMAKE_CXX_COMPILER=g++ -DCLAUSEWRIGHT_WERROR=ON >/dev/null
+cmake --build build/gcc -j "$jobs"
+step "g++ Release tests"
+ctest --test-dir build/gcc -j "$jobs" --output-on-failure
+
+step "clang++ build, -Werror"
+cmake -S . -B build/clang -DCMAKE_BUILD_TYPE=Release -DCMAKE_CXX_COMPILER=clang++ -DCLAUSEWRIGHT_WERROR=ON \
+  -DCLAUSEWRIGHT_BUILD_BENCHMARKS=OFF >/dev/null
+cmake --build build/clang -j "$jobs"
+
+step "AddressSanitizer + UBSan build and tests"
+cmake -S . -B build/sanitize -DCMAKE_BUILD_TYPE=RelWithDebInfo -DCMAKE_CXX_COMPILER=clang++ \
+  -DCLAUSEWRIGHT_WERROR=ON -DCLAUSEWRIGHT_SANITIZE=ON -DCLAUSEWRIGHT_BUILD_BENCHMARKS=OFF >/dev/null
+cmake --build build/sanitize -j "$jobs"
+ASAN_OPTIONS=detect_leaks=1:abort_on_error=1 UBSAN_OPTIONS=print_stacktrace=1:halt_on_error=1 \
+  ctest --test-dir build/sanitize -j "$jobs" --output-on-failure
+
+step "packaging: install + find_package consumer, add_subdirectory consumer"
+rm -rf build/install build/consumer-*
+cmake --install build/gcc --prefix build/install >/dev/null
+cmake -S tests/consumers/find_package -B build/consumer-find -DCMAKE_PREFIX_PATH="$root/build/install" \
+  -DCMAKE_CXX_FLAGS="-Wall -Wextra -Wpedantic -Werror" >/dev/null
+cmake --build build/consumer-find -j "$jobs"
+build/consumer-find/consumer
+cmake -S tests/consumers/subdirectory -B build/consumer-sub -DCLAUSEWRIGHT_SOURCE_DIR="$root" \
+  -DCMAKE_CXX_FLAGS="-Wall -Wextra -Wpedantic -Werror" >/dev/null
+cmake --build build/consumer-sub -j "$jobs"
+build/consumer-sub/consumer
+
+fuzz_seconds=${CLAUSEWRIGHT_FUZZ_SECONDS:-30}
+if [[ -x tests/fuzz/run.sh && $fuzz_seconds != 0 ]]; then
+  step "fuzzing the readers, ${fuzz_seconds}s each"
+  bash tests/fuzz/run.sh build/fuzz "$fuzz_seconds"
+fi
+step "all tests passed"
