@@ -54,24 +54,28 @@ class dimacs_writer {
 
   void add_clause(std::span<const literal> clause) {
     // One reserve per clause: 12 bytes per literal covers "-1073741823 ".
-    text_.reserve(clause.size() * 12 + 2);
-    if (text_.room() < clause.size() * 12 + 2) {
+    const std::size_t need = clause.size() * 12 + 2;
+    if (text_.room() < need) text_.reserve(need);
+    if (text_.room() < need) {
+      // A clause longer than the buffer: write it literal by literal.
       for (const literal l : clause) {
         text_.put_int(l.dimacs());
         text_.put(' ');
+        if (l.var() > max_var_) max_var_ = l.var();
       }
       text_.put("0\n");
     } else {
+      std::int32_t top = max_var_;
       for (const literal l : clause) {
         text_.put_int_unchecked(l.dimacs());
         text_.put_unchecked(' ');
+        top = l.var() > top ? l.var() : top;
       }
+      max_var_ = top;
       text_.put_unchecked('0');
       text_.put_unchecked('\n');
     }
     ++clauses_;
-    for (const literal l : clause)
-      if (l.var() > max_var_) max_var_ = l.var();
   }
 
   // Flushes and completes the header. `variables` must cover every variable

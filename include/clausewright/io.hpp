@@ -147,6 +147,11 @@ class atomic_file_output final : public fd_output {
   bool committed_ = false;
 };
 
+inline constexpr char digit_pairs[] =
+    "00010203040506070809101112131415161718192021222324252627282930313233343536373839"
+    "40414243444546474849505152535455565758596061626364656667686970717273747576777879"
+    "8081828384858687888990919293949596979899";
+
 // Buffered text writer: collects bytes and flushes in blocks of `capacity`.
 class text_writer {
  public:
@@ -186,9 +191,31 @@ class text_writer {
   }
   // Unchecked writes after reserve().
   void put_unchecked(char c) noexcept { buffer_[used_++] = c; }
+  // Digit pairs from a table, written back to front (as fmt's format_decimal).
   void put_int_unchecked(std::int32_t value) noexcept {
-    const auto result = std::to_chars(buffer_.data() + used_, buffer_.data() + buffer_.size(), value);
-    used_ = static_cast<std::size_t>(result.ptr - buffer_.data());
+    char* p = buffer_.data() + used_;
+    std::uint32_t u = static_cast<std::uint32_t>(value);
+    if (value < 0) {
+      *p++ = '-';
+      u = 0U - u;
+    }
+    char digits[10];
+    char* end = digits + sizeof digits;
+    char* q = end;
+    while (u >= 100) {
+      q -= 2;
+      std::memcpy(q, digit_pairs + (u % 100) * 2, 2);
+      u /= 100;
+    }
+    if (u >= 10) {
+      q -= 2;
+      std::memcpy(q, digit_pairs + u * 2, 2);
+    } else {
+      *--q = static_cast<char>('0' + u);
+    }
+    const auto length = static_cast<std::size_t>(end - q);
+    std::memcpy(p, q, length);
+    used_ = static_cast<std::size_t>(p + length - buffer_.data());
   }
   [[nodiscard]] std::size_t room() const noexcept { return buffer_.size() - used_; }
 

@@ -1,0 +1,184 @@
+// Streaming at scale: prints its figures (run from a Release build).
+//
+//   bench_streaming [--clauses N] [--tool PATH] [--generator PATH] [--dir DIR]
+//
+// 1. DIMACS writing throughput into a file in the page cache (MB/s), from a
+//    sequential counter re-encoded until N clauses are written.
+// 2. Peak resident memory of a child process that streams N clauses to a
+//    DIMACS file (target: under 200 MiB for N = 10^8).
+// 3. End-to-end `clausewright encode` of a generated bin-packing model, against
+//    copying the same output bytes with cp in the same run: the throughput
+//    ratio encode/cp (target: at least 0.5), and the encoder's peak memory.
+#include <sys/resource.h>
+#include <sys/wait.h>
+#include <unistd.h>
+
+#include <chrono>
+#include <clausewright/clausewright.hpp>
+#include <cstdio>
+#include <cstdlib>
+#include <filesystem>
+#include <string>
+#include <vector>
+
+namespace cw = clausewright;
+
+namespace {
+
+double now() { return std::chrono::duration<double>(std::chrono::steady_clock::now().time_since_epoch()).count(); }
+
+// Writes about `clauses` clauses: sequential counters over 10^4 inputs, k = 100.
+std::uint64_t write_counters(const std::string& path, std::uint64_t clauses) {
+  const std::int32_t n = 10000;
+  std::vector<cw::literal> xs;
+  for (std::int32_t v = 1; v <= n; ++v) xs.push_back(cw::lit(v));
+  cw::variable_pool pool(n);
+  cw::atomic_file_output out(path);
+  cw::dimacs_writer writer(out);
+  writer.begin_patched();
+  while (writer.clauses() < clauses) {
+    cw::variable_pool scratch(n);  // each copy reuses the same auxiliary range
+    cw::encode_sequential_at_most(writer, scratch, xs, 100);
+    pool = scratch;
+  }
+  writer.finish(pool.top());
+  out.commit();
+  return writer.bytes();
+}
+
+struct child_result {
+  double seconds = 0;
+  long max_rss_kib = 0;
+  int status = -1;
+};
+
+template <class Body>
+child_result in_child(Body body) {
+  const double start = now();
+  const pid_t pid = ::fork();
+  if (pid == 0) {
+    int rc = 0;
+    try {
+      rc = body();
+    } catch (const std::exception& e) {
+      std::fprintf(stderr, "child failed: %s\n", e.what());
+      rc = 3;
+    }
+    std::_Exit(rc);
+  }
+  int status = 0;
+  rusage usage{};
+  ::wait4(pid, &status, 0, &usage);
+  return {now() - start, usage.ru_maxrss, WIFEXITED(status) ? WEXITSTATUS(status) : -1};
+}
+
+child_result run_command(const std::vector<std::string>& argv, const std::string& stdout_path = {}) {
+  return in_child([&] {
+    if (!stdout_path.empty()) {
+      if (std::freopen(stdout_path.c_str(), "w", stdout) == nullptr) return 4;
+    }
+    std::vector<char*> args;
+    for (const auto& a : argv) args.push_back(const_cast<char*>(a.c_str()));
+    args.push_back(nullptr);
+    ::execv(args[0], args.data());
+    std::perror("execv");
+    return 5;
+  });
+}
+
+}  // namespace
+
+int main(int argc, char** argv) {
+  std::uint64_t clauses = 100'000'000;
+#ifdef CLAUSEWRIGHT_TOOL_PATH
+  std::string tool = CLAUSEWRIGHT_TOOL_PATH, generator = CLAUSEWRIGHT_GENERATOR_PATH;
+#else
+  std::string tool, generator;
+#endif
+  std::string dir = std::filesystem::temp_directory_path().string();
+  std::int64_t items = 3000;
+  for (int i = 1; i + 1 < argc; i += 2) {
+    const std::string a = argv[i];
+    if (a == "--clauses") clauses = std::strtoull(argv[i + 1], nullptr, 10);
+    else if (a == "--tool") tool = argv[i + 1];
+    else if (a == "--generator") generator = argv[i + 1];
+    else if (a == "--dir") dir = argv[i + 1];
+    else if (a == "--items") items = std::atoll(argv[i + 1]);
+  }
+  const std::string cnf = dir + "/cw-bench-stream.cnf";
+  int failures = 0;
+
+  // 0. Formatting alone, into an output that drops the bytes (CPU only).
+  {
+    class null_output final : public cw::byte_output {
+     public:
+      void write(const char*, std::size_t size) override { bytes += size; }
+      [[nodiscard]] bool can_patch() const override { return true; }
+      void patch(std::uint64_t, const char*, std::size_t) override {}
+      std::uint64_t bytes = 0;
+    } sink;
+    const std::int32_t n = 10000;
+    std::vector<cw::literal> xs;
+    for (std::int32_t v = 1; v <= n; ++v) xs.push_back(cw::lit(v));
+    cw::dimacs_writer writer(sink);
+    writer.begin_patched();
+    const double start = now();
+    std::int32_t top = n;
+    while (writer.clauses() < clauses / 4) {
+      cw::variable_pool scratch(n);
+      cw::encode_sequential_at_most(writer, scratch, xs, 100);
+      top = scratch.top();
+    }
+    writer.finish(top);
+    const double seconds = now() - start;
+    std::printf("dimacs formatting: %llu clauses, %.1f MB in %.2f s = %.0f MB/s (no file)\n",
+                static_cast<unsigned long long>(writer.clauses()), static_cast<double>(sink.bytes) / 1e6, seconds,
+                static_cast<double>(sink.bytes) / seconds / 1e6);
+  }
+
+  // 1 + 2: library streaming in a child, for its peak memory.
+  const child_result lib = in_child([&] {
+    (void)write_counters(cnf, clauses);
+    return 0;
+  });
+  const auto written = std::filesystem::file_size(cnf);
+  const double mbps = static_cast<double>(written) / lib.seconds / 1e6;
+  std::printf("dimacs writing:   %llu clauses, %.1f MB in %.2f s = %.0f MB/s (target >= 400)\n",
+              static_cast<unsigned long long>(clauses), static_cast<double>(written) / 1e6, lib.seconds, mbps);
+  std::printf("peak memory:      %.1f MiB while writing (target < 200)\n", static_cast<double>(lib.max_rss_kib) / 1024);
+  if (lib.status != 0) ++failures;
+
+  const std::string copy = dir + "/cw-bench-stream-copy.cnf";
+  const child_result cp = run_command({"/bin/cp", cnf, copy});
+  std::printf("cp of that file:  %.2f s = %.0f MB/s; writer/cp throughput ratio %.2f\n", cp.seconds,
+              static_cast<double>(written) / cp.seconds / 1e6, cp.seconds / lib.seconds);
+  std::filesystem::remove(copy);
+  std::filesystem::remove(cnf);
+
+  // 3: the tool end to end.
+  if (!tool.empty() && !generator.empty()) {
+    const std::string model = dir + "/cw-bench-binpacking.opb";
+    const std::string out = dir + "/cw-bench-binpacking.cnf";
+    const child_result gen = run_command({generator, "bin-packing", std::to_string(items), "7"}, model);
+    if (gen.status != 0) {
+      std::printf("generator failed\n");
+      return 1;
+    }
+    const child_result enc = run_command({tool, "encode", model, "-o", out});
+    if (enc.status != 0) {
+      std::printf("encode failed with status %d\n", enc.status);
+      return 1;
+    }
+    const auto size = std::filesystem::file_size(out);
+    const child_result cp2 = run_command({"/bin/cp", out, out + ".copy"});
+    std::printf("encode bin-packing (%lld items): %.1f MB in %.2f s = %.0f MB/s, peak %.1f MiB\n",
+                static_cast<long long>(items), static_cast<double>(size) / 1e6, enc.seconds,
+                static_cast<double>(size) / enc.seconds / 1e6, static_cast<double>(enc.max_rss_kib) / 1024);
+    std::printf("cp of the output: %.2f s; encode/cp throughput ratio %.2f (target >= 0.5)\n", cp2.seconds,
+                cp2.seconds / enc.seconds);
+    std::filesystem::remove(out + ".copy");
+    std::filesystem::remove(out);
+    std::filesystem::remove(model);
+  }
+  return failures == 0 ? 0 : 1;
+}
