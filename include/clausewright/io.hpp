@@ -204,12 +204,12 @@ class text_writer {
     char* q = end;
     while (u >= 100) {
       q -= 2;
-      std::memcpy(q, digit_pairs + (u % 100) * 2, 2);
+      std::memcpy(q, digit_pairs + static_cast<std::size_t>(u % 100) * 2, 2);
       u /= 100;
     }
     if (u >= 10) {
       q -= 2;
-      std::memcpy(q, digit_pairs + u * 2, 2);
+      std::memcpy(q, digit_pairs + static_cast<std::size_t>(u) * 2, 2);
     } else {
       *--q = static_cast<char>('0' + u);
     }
