@@ -23,9 +23,12 @@ cmake -S . -B build/clang -DCMAKE_BUILD_TYPE=Release -DCMAKE_CXX_COMPILER=clang+
 cmake --build build/clang -j "$jobs"
 
 step "clang-tidy (the repository's .clang-tidy) over the sources and tests"
-find src tests examples benchmarks -name '*.cpp' -not -path 'tests/fuzz/*' -not -path 'tests/consumers/*' 2>/dev/null |
-  xargs -r -P "$jobs" -n 4 clang-tidy -p build/gcc --quiet 2>/dev/null |
-  tee build/clang-tidy.log | grep -E "(error|warning):" && { echo "clang-tidy found problems"; exit 1; } || true
+if ! find src tests examples benchmarks -name '*.cpp' -not -path 'tests/fuzz/*' -not -path 'tests/consumers/*' |
+  xargs -r -P "$jobs" -n 4 clang-tidy -p build/gcc --quiet >build/clang-tidy.log 2>&1; then
+  grep -E "(error|warning):" build/clang-tidy.log || tail -20 build/clang-tidy.log
+  echo "clang-tidy found problems (build/clang-tidy.log)"
+  exit 1
+fi
 
 step "AddressSanitizer + UBSan build and tests"
 cmake -S . -B build/sanitize -DCMAKE_BUILD_TYPE=RelWithDebInfo -DCMAKE_CXX_COMPILER=clang++ \
