@@ -11,5 +11,6 @@
 #include "literal.hpp"
 #include "methods.hpp"
 #include "pool.hpp"
+#include "predict.hpp"
 #include "select.hpp"
 #include "sink.hpp"
