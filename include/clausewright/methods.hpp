@@ -15,16 +15,34 @@
 #include <string_view>
 
 #include "constraint.hpp"
+#include "encodings/adder.hpp"
+#include "encodings/bdd.hpp"
+#include "encodings/bimander.hpp"
+#include "encodings/bitwise.hpp"
+#include "encodings/commander.hpp"
 #include "encodings/common.hpp"
+#include "encodings/generalized_totalizer.hpp"
+#include "encodings/ladder.hpp"
 #include "encodings/pairwise.hpp"
+#include "encodings/product.hpp"
 #include "encodings/sequential_counter.hpp"
+#include "encodings/sequential_weight_counter.hpp"
 #include "error.hpp"
 
 namespace clausewright {
 
 enum class method_id : std::uint8_t {
   pairwise,
+  ladder,
+  bitwise,
+  commander,
+  product,
+  bimander,
   sequential_counter,
+  bdd,
+  adder,
+  generalized_totalizer,
+  sequential_weight_counter,
 };
 
 // Kinds a method applies to, as a bit set.
@@ -52,8 +70,34 @@ struct method_info {
 inline constexpr std::array method_table{
     method_info{method_id::pairwise, "pairwise", static_cast<std::uint8_t>(applies::at_most_one), true,
                 "folklore (binomial encoding)", "0 auxiliary variables, n(n-1)/2 clauses"},
+    method_info{method_id::ladder, "ladder", static_cast<std::uint8_t>(applies::at_most_one), true,
+                "Sinz 2005 (CP), k = 1; Gent & Nightingale 2004", "n-1 auxiliary variables, 3n-4 clauses"},
+    method_info{method_id::bitwise, "bitwise", static_cast<std::uint8_t>(applies::at_most_one), true,
+                "Frisch et al. 2005; Prestwich 2007", "ceil(log2 n) auxiliary variables, n*ceil(log2 n) clauses"},
+    method_info{method_id::commander, "commander", static_cast<std::uint8_t>(applies::at_most_one), true,
+                "Klieber & Kwon 2007", "groups of 3, n = 3^t: (n-3)/2 auxiliary variables, 3n-6 clauses (3.5n-6.5 "
+                "for exactly-one)"},
+    method_info{method_id::product, "product", static_cast<std::uint8_t>(applies::at_most_one), true,
+                "Chen 2010", "2*sqrt(n) + O(n^(1/4)) auxiliary variables, 2n + 4*sqrt(n) + O(n^(1/4)) clauses"},
+    method_info{method_id::bimander, "bimander", static_cast<std::uint8_t>(applies::at_most_one), true,
+                "Nguyen & Mai 2015", "groups of 4: ceil(log2 ceil(n/4)) auxiliary variables, "
+                "n*ceil(log2 ceil(n/4)) + 6 per full group clauses"},
     method_info{method_id::sequential_counter, "sequential-counter", applies::at_most_one | applies::cardinality, true,
                 "Sinz 2005 (CP)", "at most k, 1 <= k < n: k(n-1) auxiliary variables, 2nk + n - 3k - 1 clauses"},
+    method_info{method_id::bdd, "bdd", applies::at_most_one | applies::cardinality | applies::linear, true,
+                "Abío, Nieuwenhuis, Oliveras, Rodríguez-Carbonell, Mayer-Eichberger 2012 (JAIR); "
+                "Eén & Sörensson 2006 (JSAT)",
+                "one node per distinct interval of bounds, O(nK); per node 2 clauses (<=, >=), 3 (=), 6 (full)"},
+    method_info{method_id::adder, "adder", applies::at_most_one | applies::cardinality | applies::linear, false,
+                "Warners 1998 (IPL); Eén & Sörensson 2006 (JSAT)",
+                "O(n log a_max): full adder 8 + 6 clauses, half adder 4 + 3 (one direction: 4 + 3, 2 + 1 or 2 + 2)"},
+    method_info{method_id::generalized_totalizer, "generalized-totalizer",
+                applies::at_most_one | applies::cardinality | applies::linear, true,
+                "Joshi, Martins, Manquinho 2015 (CP)",
+                "a node of children with p and q distinct sums (cut at K+1): (p+1)(q+1)-1 clauses per direction"},
+    method_info{method_id::sequential_weight_counter, "sequential-weight-counter",
+                applies::at_most_one | applies::cardinality | applies::linear, true,
+                "Hölldobler, Manthey, Steinke 2012 (KI)", "<= K: K(n-1) registers, O(nK) clauses"},
 };
 
 [[nodiscard]] constexpr const method_info& info(method_id id) noexcept {
@@ -121,7 +165,16 @@ void encode_with(method_id id, Sink& out, variable_pool& pool, const normalized_
                 c.where());
   switch (id) {
     case method_id::pairwise: encode_pairwise(out, pool, c, options); return;
+    case method_id::ladder: encode_ladder(out, pool, c, options); return;
+    case method_id::bitwise: encode_bitwise(out, pool, c, options); return;
+    case method_id::commander: encode_commander(out, pool, c, options); return;
+    case method_id::product: encode_product(out, pool, c, options); return;
+    case method_id::bimander: encode_bimander(out, pool, c, options); return;
     case method_id::sequential_counter: encode_sequential_counter(out, pool, c, options); return;
+    case method_id::bdd: encode_bdd(out, pool, c, options); return;
+    case method_id::adder: encode_adder(out, pool, c, options); return;
+    case method_id::generalized_totalizer: encode_generalized_totalizer(out, pool, c, options); return;
+    case method_id::sequential_weight_counter: encode_sequential_weight_counter(out, pool, c, options); return;
   }
 }
 

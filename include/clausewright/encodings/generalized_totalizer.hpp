@@ -1,0 +1,225 @@
+// Generalized totalizer: Joshi, Martins, Manquinho 2015, "Generalized
+// totalizer encoding for pseudo-Boolean constraints" (CP).
+//
+// A balanced binary tree over the inputs (left half floor(n/2)). A node has
+// one output per distinct sum its inputs can reach, sums of cap = K+1 and
+// above collapsed into cap; a leaf's output is the input itself at min(a,
+// cap). A node joining children with outputs u (from L) and v (from R) gets,
+// for every pair including the empty one (value 0, true),
+//     l_u & r_v -> o_min(u+v, cap)                       (upper side),
+// so the inputs summing to w set o_w; sum <= K is then ~o_cap. A node joining
+// children of p and q outputs has (p+1)(q+1)-1 such clauses; on unit
+// coefficients this is the totalizer with outputs cut at K+1 (Bailleux &
+// Boufkhad 2003; Büttner & Rintanen 2005).
+//
+// The lower side (o_w -> sum >= w) has, for every pair (u, v) with u + v
+// below cap, the clause  l_succ(u) | r_succ(v) | ~o_w'  where succ is the next
+// output of the child (none: the literal drops) and w' the node's next output
+// above u + v, plus the chain o_w' -> o_w over consecutive outputs, without
+// which the lower side would only falsify the next output above the sum.
+// With both sides o_w <-> "sum >= w" for every output w.
+//
+// Relations: <= builds the upper side only (as published); >= is encoded as
+// <= over the negated inputs (negated_view), so it is the published encoding
+// of the complementary sum; = builds one tree with both sides and asserts
+// ~o_(K+1) and o_w for the smallest output w >= K; full_equivalence builds both
+// sides for every relation. Size: grows with the number of distinct partial
+// sums, at most (K+2)^2 clauses per node; exponential in n when the sums are
+// all distinct. An output budget (default_generalized_totalizer_output_budget,
+// or the argument of encode_generalized_totalizer) throws
+// error_id::over_budget before the outputs exhaust memory. Arc-consistent for
+// <= and >=; for = not in general (measured).
+#pragma once
+
+#include <algorithm>
+#include <cstdint>
+#include <map>
+#include <span>
+#include <string>
+#include <unordered_map>
+#include <utility>
+#include <vector>
+
+#include "common.hpp"
+
+namespace clausewright {
+
+// Outputs over all nodes of one tree (about 50 bytes each while a node is
+// joined): 2^22 keeps the peak near 200 MiB.
+inline constexpr std::uint64_t default_generalized_totalizer_output_budget = std::uint64_t{1} << 22;
+
+struct weighted_output {
+  std::int64_t value;  // a reachable sum (cap stands for cap and above)
+  literal lit;
+};
+
+// The root of a generalized totalizer. Upper side: the inputs summing to w
+// (cap and above: to cap) set outputs[w], so sum <= K2 for any K2 < cap is
+// enforced by asserting ~outputs[w] for every output w > K2 (a bound can be
+// tightened later that way). With both sides, outputs[w] <-> sum >= w.
+struct generalized_totalizer_outputs {
+  std::map<std::int64_t, literal> outputs;
+  std::int64_t cap = 0;
+  sides built = sides::upper;
+};
+
+namespace detail {
+
+template <class Sink>
+class generalized_totalizer_builder {
+ public:
+  generalized_totalizer_builder(Sink& out, variable_pool& pool, std::span<const literal> literals,
+                                std::span<const std::int64_t> coefficients, std::int64_t cap, sides which,
+                                std::uint64_t output_budget, error_position where)
+      : out_(out), pool_(pool), literals_(literals), coefficients_(coefficients), cap_(cap), which_(which),
+        budget_(output_budget), where_(std::move(where)) {}
+
+  std::vector<weighted_output> build(std::size_t first, std::size_t last) {
+    if (last - first == 1) return {weighted_output{std::min(coefficients_[first], cap_), literals_[first]}};
+    const std::size_t middle = first + (last - first) / 2;
+    const std::vector<weighted_output> left = build(first, middle);
+    const std::vector<weighted_output> right = build(middle, last);
+    return join(left, right);
+  }
+
+ private:
+  // Outputs of a child with the empty sum in front: value 0, always true.
+  static weighted_output at(const std::vector<weighted_output>& child, std::size_t i) {
+    return i == 0 ? weighted_output{0, literal()} : child[i - 1];
+  }
+
+  std::vector<weighted_output> join(const std::vector<weighted_output>& left,
+                                    const std::vector<weighted_output>& right) {
+    index_.clear();
+    index_.reserve(left.size() + right.size());
+    std::vector<weighted_output> outputs;
+    for (std::size_t i = 0; i <= left.size(); ++i) {
+      const weighted_output u = at(left, i);
+      for (std::size_t j = i == 0 ? 1 : 0; j <= right.size(); ++j) {
+        const weighted_output v = at(right, j);
+        const std::int64_t w = std::min(u.value + v.value, cap_);  // no overflow: at most the coefficient sum
+        auto [it, fresh] = index_.try_emplace(w, literal());
+        if (fresh) {
+          if (++made_ > budget_)
+            throw error(error_id::over_budget,
+                        "the generalized totalizer passed its budget of " + std::to_string(budget_) + " outputs",
+                        where_);
+          it->second = pool_.fresh();
+          outputs.push_back({w, it->second});
+        }
+        if (!has_upper(which_)) continue;
+        if (i == 0)
+          emit(out_, ~v.lit, it->second);
+        else if (j == 0)
+          emit(out_, ~u.lit, it->second);
+        else
+          emit(out_, ~u.lit, ~v.lit, it->second);
+      }
+    }
+    std::sort(outputs.begin(), outputs.end(),
+              [](const weighted_output& a, const weighted_output& b) { return a.value < b.value; });
+    if (has_lower(which_)) {
+      for (std::size_t i = 0; i <= left.size(); ++i) {
+        const std::int64_t u = at(left, i).value;
+        for (std::size_t j = 0; j <= right.size(); ++j) {
+          const std::int64_t t = u + at(right, j).value;
+          if (t >= cap_) break;  // right values increase
+          const auto next = std::upper_bound(outputs.begin(), outputs.end(), t,
+                                             [](std::int64_t x, const weighted_output& o) { return x < o.value; });
+          if (next == outputs.end()) continue;
+          // The inputs summing to at most t (left at most u, right at most v) clear o_next.
+          const bool left_more = i < left.size();
+          const bool right_more = j < right.size();
+          if (left_more && right_more)
+            emit(out_, left[i].lit, right[j].lit, ~next->lit);
+          else if (left_more)
+            emit(out_, left[i].lit, ~next->lit);
+          else if (right_more)
+            emit(out_, right[j].lit, ~next->lit);
+          else
+            emit(out_, ~next->lit);
+        }
+      }
+      for (std::size_t k = 1; k < outputs.size(); ++k) emit(out_, ~outputs[k].lit, outputs[k - 1].lit);
+    }
+    return outputs;
+  }
+
+  Sink& out_;
+  variable_pool& pool_;
+  std::span<const literal> literals_;
+  std::span<const std::int64_t> coefficients_;
+  std::int64_t cap_;
+  sides which_;
+  std::uint64_t budget_;
+  error_position where_;
+  std::uint64_t made_ = 0;
+  std::unordered_map<std::int64_t, literal> index_;  // reused across nodes
+};
+
+}  // namespace detail
+
+// The tree over the given inputs with outputs cut at `cap` (>= 1).
+template <class Sink>
+generalized_totalizer_outputs build_generalized_totalizer(Sink& out, variable_pool& pool,
+                                                          std::span<const literal> literals,
+                                                          std::span<const std::int64_t> coefficients,
+                                                          std::int64_t cap, sides which,
+                                                          const error_position& where = {},
+                                                          std::uint64_t output_budget =
+                                                              default_generalized_totalizer_output_budget) {
+  if (literals.size() != coefficients.size())
+    throw error(error_id::usage, "the generalized totalizer needs one coefficient per literal", where);
+  if (cap < 1) throw error(error_id::usage, "the generalized totalizer needs a cut of at least 1", where);
+  std::int64_t total = 0;
+  for (const std::int64_t a : coefficients) {
+    if (a <= 0)
+      throw error(error_id::usage, "the generalized totalizer takes normalised constraints (positive coefficients)",
+                  where);
+    total = detail::checked_add(total, a, where, "the sum of the coefficients");
+  }
+  generalized_totalizer_outputs result;
+  result.cap = cap;
+  result.built = which;
+  if (literals.empty()) return result;
+  detail::generalized_totalizer_builder<Sink> builder(out, pool, literals, coefficients, cap, which,
+                                                                output_budget, where);
+  for (const weighted_output& o : builder.build(0, literals.size())) result.outputs.emplace(o.value, o.lit);
+  return result;
+}
+
+template <class Sink>
+void encode_generalized_totalizer(Sink& out, variable_pool& pool, const normalized_constraint& c,
+                                  const encode_options& options,
+                                  std::uint64_t output_budget = default_generalized_totalizer_output_budget) {
+  if (c.kind == constraint_kind::clause) {
+    out.add_clause(std::span<const literal>(c.literals));
+    return;
+  }
+  // negated_view adds the coefficients: check the sum of a hand-built constraint first.
+  std::int64_t total = 0;
+  for (const std::int64_t a : c.coefficients)
+    total = detail::checked_add(total, a, c.where(), "the sum of the coefficients");
+  const bool ge = c.rel == relation::ge;
+  const normalized_constraint flipped = ge ? negated_view(c) : normalized_constraint{};
+  const normalized_constraint& le = ge ? flipped : c;
+  if (le.bound < 0) {
+    out.add_clause(std::span<const literal>());
+    return;
+  }
+  const std::int64_t cap = detail::checked_add(le.bound, 1, c.where(), "the bound plus one");
+  const sides which = options.full_equivalence || le.rel == relation::eq ? sides::both : sides::upper;
+  const generalized_totalizer_outputs root =
+      build_generalized_totalizer(out, pool, le.literals, le.coefficients, cap, which, c.where(),
+                                  output_budget);
+  if (const auto top = root.outputs.find(cap); top != root.outputs.end()) emit(out, ~top->second);
+  if (le.rel == relation::eq) {
+    const auto reach = root.outputs.lower_bound(le.bound);
+    if (reach == root.outputs.end())
+      out.add_clause(std::span<const literal>());
+    else
+      emit(out, reach->second);
+  }
+}
+
+}  // namespace clausewright
