@@ -249,7 +249,8 @@ inline propagation_report measure_propagation(const raw_constraint& c, cw::metho
       std::ostringstream os;
       for (std::size_t i = 0; i < n; ++i)
         if (partial[i] != 0) os << (partial[i] > 0 ? "" : "~") << "x" << inputs[i] << " ";
-      return os.str();
+      const std::string assigned = os.str();
+      return assigned.empty() ? std::string("no assignment ") : assigned;
     };
     if (!satisfiable) {
       if (no_conflict && report.arc_consistent) {
