@@ -34,7 +34,7 @@ int main() {
     // Measure every applicable method on the fragile limit, then let it pick.
     const auto limit = cw::normalize_cardinality(fragile_here, cw::relation::le, 2);
     for (const auto& m : cw::measure_all(pool, limit))
-      std::fprintf(stderr, "van %d fragile limit: %-20s %3llu clauses %3llu aux vars\n", v,
+      std::fprintf(stderr, "van %d fragile limit: %-26s %4llu clauses %3llu aux vars\n", v,
                    std::string(cw::info(m.method).name).c_str(), static_cast<unsigned long long>(m.size.clauses),
                    static_cast<unsigned long long>(m.size.variables));
     const auto used = enc.at_most(fragile_here, 2);
