@@ -23,7 +23,9 @@ cmake -S . -B build/clang -DCMAKE_BUILD_TYPE=Release -DCMAKE_CXX_COMPILER=clang+
 cmake --build build/clang -j "$jobs"
 
 step "clang-tidy (the repository's .clang-tidy) over the sources and tests"
-if ! find src tests examples benchmarks -name '*.cpp' -not -path 'tests/fuzz/*' -not -path 'tests/consumers/*' |
+dirs=()
+for d in src tests examples benchmarks; do [[ -d $d ]] && dirs+=("$d"); done
+if ! find "${dirs[@]}" -name '*.cpp' -not -path 'tests/fuzz/*' -not -path 'tests/consumers/*' |
   xargs -r -P "$jobs" -n 4 clang-tidy -p build/gcc --quiet >build/clang-tidy.log 2>&1; then
   grep -E "(error|warning):" build/clang-tidy.log || tail -20 build/clang-tidy.log
   echo "clang-tidy found problems (build/clang-tidy.log)"
