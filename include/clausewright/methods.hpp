@@ -80,8 +80,8 @@ inline constexpr std::array method_table{
     method_info{method_id::product, "product", static_cast<std::uint8_t>(applies::at_most_one), true,
                 "Chen 2010", "2*sqrt(n) + O(n^(1/4)) auxiliary variables, 2n + 4*sqrt(n) + O(n^(1/4)) clauses"},
     method_info{method_id::bimander, "bimander", static_cast<std::uint8_t>(applies::at_most_one), true,
-                "Nguyen & Mai 2015", "groups of 4: ceil(log2 ceil(n/4)) auxiliary variables, "
-                "n*ceil(log2 ceil(n/4)) + 6 per full group clauses"},
+                "Nguyen & Mai 2015", "groups of 4, b = ceil(log2 ceil(n/4)): b auxiliary variables, n*b + 6 "
+                "clauses per group of 4"},
     method_info{method_id::sequential_counter, "sequential-counter", applies::at_most_one | applies::cardinality, true,
                 "Sinz 2005 (CP)", "at most k, 1 <= k < n: k(n-1) auxiliary variables, 2nk + n - 3k - 1 clauses"},
     method_info{method_id::bdd, "bdd", applies::at_most_one | applies::cardinality | applies::linear, true,

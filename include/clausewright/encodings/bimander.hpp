@@ -10,7 +10,7 @@
 // states the parameter as the number of groups m; we fix the group size.
 //
 // Default group size 4: per input the pairwise part costs (g-1)/2 clauses and
-// every halving of the number of groups saves one clause, so g = 2, 3, 4 are
+// each halving of the number of groups saves one clause, so g = 2, 3, 4 are
 // within a fraction of a clause per input of each other, and g = 4 (a power of
 // two, so no code is wasted by rounding) gives n*(ceil(log2 n) - 2) + 1.5n
 // clauses with two bits fewer than bitwise when 4 divides n.

@@ -1,15 +1,13 @@
-// Bitwise (binary) at-most-one: Frisch, Peugniez, Doggett & Nightingale 2005;
-// Prestwich 2007.
+// Bitwise (binary) at-most-one: Frisch et al. 2005; Prestwich 2007.
 //
 // Input x_i (counted from 0) carries the binary code of i on m = ceil(log2 n)
 // fresh bits b_j: for every i and j the clause ~x_i | b_j when bit j of i is
 // 1, ~x_i | ~b_j when it is 0. Two true inputs would need two codes at once.
 // That is ceil(log2 n) auxiliary variables and n * ceil(log2 n) clauses.
-// The literature calls the binary encoding not arc-consistent, which holds for
-// the bits (they are not propagated from false inputs); on the inputs of an
-// at-most-one it is: a true x_i fixes every bit, and every other input has a
-// clause with a bit on which its code differs (measured in
-// tests/test_method_table.cpp).
+// Often listed as not arc-consistent, which holds for the bits (false inputs
+// do not propagate to them); on the inputs of an at-most-one it is: a true
+// x_i fixes every bit, and every other input has a clause on a bit in which
+// its code differs (measured in tests/test_method_table.cpp).
 //
 // Full equivalence defines bit j as "an input whose code has bit j set is
 // true", adding b_j -> OR{x_i : bit j of i is 1} (m more clauses), so the bits

@@ -25,6 +25,7 @@
 // paper's exactly-one. For exactly-one full equivalence adds nothing.
 #pragma once
 
+#include <algorithm>
 #include <cstdint>
 #include <span>
 #include <vector>

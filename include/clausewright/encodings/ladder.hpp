@@ -1,6 +1,7 @@
 // Ladder (sequential) at-most-one: Sinz 2005, "Towards an optimal CNF
 // encoding of Boolean cardinality constraints" (CP), the sequential counter
-// with k = 1; its register chain is the ladder of Gent & Nightingale 2004.
+// with k = 1; its register chain is the ladder of Gent & Nightingale 2004,
+// "A new encoding of AllDifferent into SAT".
 //
 // Register s_i (1 <= i < n) is implied by "one of x_1..x_i is true":
 //     ~x_1 | s_1;

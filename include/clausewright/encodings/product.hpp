@@ -19,6 +19,7 @@
 // clause x_1 | ... | x_n.
 #pragma once
 
+#include <algorithm>
 #include <cstdint>
 #include <span>
 #include <vector>
