@@ -31,6 +31,7 @@ double now() { return std::chrono::duration<double>(std::chrono::steady_clock::n
 std::uint64_t write_counters(const std::string& path, std::uint64_t clauses) {
   const std::int32_t n = 10000;
   std::vector<cw::literal> xs;
+  xs.reserve(n);
   for (std::int32_t v = 1; v <= n; ++v) xs.push_back(cw::lit(v));
   cw::variable_pool pool(n);
   cw::atomic_file_output out(path);
@@ -119,6 +120,7 @@ int main(int argc, char** argv) {
     } sink;
     const std::int32_t n = 10000;
     std::vector<cw::literal> xs;
+    xs.reserve(n);
     for (std::int32_t v = 1; v <= n; ++v) xs.push_back(cw::lit(v));
     cw::dimacs_writer writer(sink);
     writer.begin_patched();
