@@ -22,12 +22,36 @@ namespace {
 struct opb_out {
   std::string text;
   std::uint64_t constraints = 0;
+  // Appends piece by piece: g++ 12 at -O3 warns falsely (-Wrestrict) on
+  // chains of std::string operator+.
   void term(std::int64_t a, std::int64_t var) {
-    text += (a >= 0 ? "+" : "") + std::to_string(a) + " x" + std::to_string(var) + " ";
+    if (a >= 0) text += '+';
+    text += std::to_string(a);
+    text += " x";
+    text += std::to_string(var);
+    text += ' ';
+  }
+  void variable(const char* sign, std::int64_t a, std::int64_t var) {
+    text += ' ';
+    text += sign;
+    text += std::to_string(a);
+    text += " x";
+    text += std::to_string(var);
   }
   void end(const char* rel, std::int64_t k) {
-    text += std::string(rel) + " " + std::to_string(k) + " ;\n";
+    text += rel;
+    text += ' ';
+    text += std::to_string(k);
+    text += " ;\n";
     ++constraints;
+  }
+  void comment(const std::string& what, std::int64_t a, const char* middle, std::int64_t b, const char* tail) {
+    text += "* ";
+    text += what;
+    text += std::to_string(a);
+    text += middle;
+    text += std::to_string(b);
+    text += tail;
   }
   void flush() {
     std::fwrite(text.data(), 1, text.size(), stdout);
@@ -52,9 +76,9 @@ int bin_packing(std::int64_t items, std::mt19937_64& rng) {
   auto y = [&](std::int64_t b) { return items * bins + b + 1; };
   header(items * bins + bins, static_cast<std::uint64_t>(items + bins));
   opb_out out;
-  out.text += "* bin packing: " + std::to_string(items) + " items, " + std::to_string(bins) + " bins of capacity 100\n";
+  out.comment("bin packing: ", items, " items, ", bins, " bins of capacity 100\n");
   out.text += "min:";
-  for (std::int64_t b = 0; b < bins; ++b) out.text += " +1 x" + std::to_string(y(b));
+  for (std::int64_t b = 0; b < bins; ++b) out.variable("+", 1, y(b));
   out.text += " ;\n";
   for (std::int64_t i = 0; i < items; ++i) {
     for (std::int64_t b = 0; b < bins; ++b) out.term(1, x(i, b));
@@ -76,12 +100,14 @@ int knapsack(std::int64_t items, std::mt19937_64& rng) {
   std::uniform_int_distribution<std::int64_t> weight(1, 1000), value(1, 1000);
   header(items, 1);
   opb_out out;
-  out.text += "* knapsack: " + std::to_string(items) + " items\n";
+  out.text += "* knapsack: ";
+  out.text += std::to_string(items);
+  out.text += " items\n";
   std::vector<std::int64_t> w(static_cast<std::size_t>(items));
   std::int64_t total = 0;
   for (auto& x : w) total += x = weight(rng);
   out.text += "min:";
-  for (std::int64_t i = 0; i < items; ++i) out.text += " -" + std::to_string(value(rng)) + " x" + std::to_string(i + 1);
+  for (std::int64_t i = 0; i < items; ++i) out.variable("-", value(rng), i + 1);
   out.text += " ;\n";
   for (std::int64_t i = 0; i < items; ++i) out.term(-w[static_cast<std::size_t>(i)], i + 1);
   out.end(">=", -(total / 2));
@@ -95,11 +121,11 @@ int rota(std::int64_t people, std::mt19937_64& rng) {
   const std::int64_t need = std::max<std::int64_t>(1, people / 4);
   header(people * shifts, static_cast<std::uint64_t>(shifts + people + people * days));
   opb_out out;
-  out.text += "* staff rota: " + std::to_string(people) + " people, " + std::to_string(shifts) + " shifts\n";
+  out.comment("staff rota: ", people, " people, ", shifts, " shifts\n");
   out.text += "min:";
   for (std::int64_t p = 0; p < people; ++p)
     for (std::int64_t s = 0; s < shifts; ++s)
-      if (rng() % 5 == 0) out.text += " +1 x" + std::to_string(x(p, s));  // an unwanted shift
+      if (rng() % 5 == 0) out.variable("+", 1, x(p, s));  // an unwanted shift
   out.text += " ;\n";
   for (std::int64_t s = 0; s < shifts; ++s) {
     for (std::int64_t p = 0; p < people; ++p) out.term(1, x(p, s));
