@@ -18,15 +18,19 @@
 #include "encodings/adder.hpp"
 #include "encodings/bdd.hpp"
 #include "encodings/bimander.hpp"
+#include "encodings/binomial.hpp"
 #include "encodings/bitwise.hpp"
+#include "encodings/cardinality_network.hpp"
 #include "encodings/commander.hpp"
 #include "encodings/common.hpp"
 #include "encodings/generalized_totalizer.hpp"
 #include "encodings/ladder.hpp"
+#include "encodings/modulo_totalizer.hpp"
 #include "encodings/pairwise.hpp"
 #include "encodings/product.hpp"
 #include "encodings/sequential_counter.hpp"
 #include "encodings/sequential_weight_counter.hpp"
+#include "encodings/totalizer.hpp"
 #include "error.hpp"
 
 namespace clausewright {
@@ -39,6 +43,11 @@ enum class method_id : std::uint8_t {
   product,
   bimander,
   sequential_counter,
+  totalizer,
+  modulo_totalizer,
+  cardinality_network,
+  sorting_network,
+  binomial,
   bdd,
   adder,
   generalized_totalizer,
@@ -84,6 +93,22 @@ inline constexpr std::array method_table{
                 "clauses per group of 4"},
     method_info{method_id::sequential_counter, "sequential-counter", applies::at_most_one | applies::cardinality, true,
                 "Sinz 2005 (CP)", "at most k, 1 <= k < n: k(n-1) auxiliary variables, 2nk + n - 3k - 1 clauses"},
+    method_info{method_id::totalizer, "totalizer", applies::at_most_one | applies::cardinality, true,
+                "Bailleux & Boufkhad 2003 (CP); outputs cut at k+1, Büttner & Rintanen 2005",
+                "a node joining counts of sizes a and b: (a+1)(b+1)-1 clauses per direction before cutting; "
+                "O(n log k) auxiliary variables, O(nk) clauses"},
+    method_info{method_id::modulo_totalizer, "modulo-totalizer", applies::at_most_one | applies::cardinality,
+                false, "Ogawa, Liu, Hasegawa, Koshimura, Fujita 2013 (ICTAI)",
+                "divisor p = ceil(sqrt k): O(n sqrt k) auxiliary variables and clauses"},
+    method_info{method_id::cardinality_network, "cardinality-network", applies::at_most_one | applies::cardinality,
+                true, "Asín, Nieuwenhuis, Oliveras, Rodríguez-Carbonell 2011 (Constraints); Batcher 1968",
+                "O(n log^2 k) comparators, 3 clauses and 2 auxiliary variables each per direction"},
+    method_info{method_id::sorting_network, "sorting-network", applies::at_most_one | applies::cardinality,
+                true, "Batcher 1968 (odd-even merge sort); Eén & Sörensson 2006 (JSAT)",
+                "n = 2^m: (m^2 - m + 4) * 2^(m-2) - 1 comparators, 3 clauses and 2 auxiliary variables each per "
+                "direction (inputs padded with false to a power of two)"},
+    method_info{method_id::binomial, "binomial", applies::at_most_one | applies::cardinality, true,
+                "folklore (direct encoding)", "0 auxiliary variables; C(n, k+1) clauses for <=, C(n, n-k+1) for >="},
     method_info{method_id::bdd, "bdd", applies::at_most_one | applies::cardinality | applies::linear, true,
                 "Abío, Nieuwenhuis, Oliveras, Rodríguez-Carbonell, Mayer-Eichberger 2012 (JAIR); "
                 "Eén & Sörensson 2006 (JSAT)",
@@ -171,6 +196,11 @@ void encode_with(method_id id, Sink& out, variable_pool& pool, const normalized_
     case method_id::product: encode_product(out, pool, c, options); return;
     case method_id::bimander: encode_bimander(out, pool, c, options); return;
     case method_id::sequential_counter: encode_sequential_counter(out, pool, c, options); return;
+    case method_id::totalizer: encode_totalizer(out, pool, c, options); return;
+    case method_id::modulo_totalizer: encode_modulo_totalizer(out, pool, c, options); return;
+    case method_id::cardinality_network: encode_cardinality_network(out, pool, c, options); return;
+    case method_id::sorting_network: encode_sorting_network(out, pool, c, options); return;
+    case method_id::binomial: encode_binomial(out, pool, c, options); return;
     case method_id::bdd: encode_bdd(out, pool, c, options); return;
     case method_id::adder: encode_adder(out, pool, c, options); return;
     case method_id::generalized_totalizer: encode_generalized_totalizer(out, pool, c, options); return;
