@@ -1,0 +1,242 @@
+// clausewright encode MODEL [-o OUT] [--format cnf|wcnf] [--method NAME]...
+//                    [--objective-bound B] [--pick POLICY]
+//
+// Streams the model constraint by constraint into DIMACS CNF or WCNF. A file
+// is written beside its target and renamed into place only when complete.
+// Standard output gets the exact header from a dry run first (the input is
+// read twice), which also means nothing is written for a malformed model.
+#include <unistd.h>
+
+#include <cstdio>
+#include <functional>
+#include <limits>
+#include <memory>
+#include <optional>
+#include <string>
+
+#include <clausewright/dimacs.hpp>
+#include <clausewright/io.hpp>
+
+#include "commands.hpp"
+#include "model_file.hpp"
+#include "wcnf.hpp"
+
+namespace clausewright::tool {
+
+namespace {
+
+struct encode_request {
+  std::string model;
+  std::string output;
+  std::string format;
+  std::vector<std::string> methods;
+  std::optional<std::int64_t> objective_bound;
+  std::string pick = "balanced";
+  std::uint64_t budget = default_clause_budget;
+  bool older_wcnf = false;
+  bool comments = false;
+  bool full_equivalence = false;
+  bool progress = false;
+  bool no_progress = false;
+};
+
+bool ends_with(const std::string& s, std::string_view suffix) {
+  return s.size() >= suffix.size() && s.compare(s.size() - suffix.size(), suffix.size(), suffix) == 0;
+}
+
+// Between the reader and the encoder: writes the header and the optional
+// comment lines at the right moments, and keeps the progress line going.
+template <class Writer, class Sink>
+class encode_front final : public model_handler {
+ public:
+  encode_front(Writer& writer, model_encoder<Sink>& encoder, std::function<void()> header, bool comments,
+               progress_line* progress)
+      : writer_(writer),
+        encoder_(encoder),
+        header_(std::move(header)),
+        comments_(comments),
+        progress_(progress != nullptr && progress->enabled() ? progress : nullptr) {
+    if (comments_) {
+      encoder_.on_constraint = [this](const constraint_outcome& o) { comment(o); };
+    } else if (progress_ != nullptr) {
+      encoder_.on_constraint = [this](const constraint_outcome& /*o*/) { tick(); };
+    }
+  }
+
+  void begin(const model_header& h) override {
+    if (comments_) {
+      writer_.comment("clausewright " CLAUSEWRIGHT_VERSION_STRING " from " + std::string(h.file));
+      for (std::int32_t v = 1; v <= h.variables; ++v)
+        writer_.comment("variable " + (h.name_of ? h.name_of(v) : "x" + std::to_string(v)) + " " + std::to_string(v));
+    }
+    if (progress_ != nullptr) progress_->set_total(h.constraints);
+    if (header_) header_();
+    encoder_.begin(h);
+  }
+  literal product(std::span<const literal> factors) override { return encoder_.product(factors); }
+  void objective(std::span<const term> terms, source_position where) override { encoder_.objective(terms, where); }
+  void constraint(const constraint_view& c) override {
+    encoder_.constraint(c);
+    if (!comments_ && progress_ != nullptr && c.soft() && !weighted_clause_sink<Sink>) tick();
+  }
+  void end() override { encoder_.end(); }
+
+ private:
+  void tick() {
+    const model_encoding_summary s = encoder_.summary();
+    progress_->update(s.constraints, s.hard_clauses + s.soft_clauses);
+  }
+  void comment(const constraint_outcome& o) {
+    std::string text = "constraint #" + std::to_string(o.index);
+    if (!o.name.empty()) text += " " + std::string(o.name);
+    text += ": " + std::string(to_string(o.kind));
+    if (o.weight > 0) text += ", soft (weight " + std::to_string(o.weight) + ")";
+    text += ", method " + (o.method ? std::string(info(*o.method).name) : std::string("none"));
+    text += ", " + std::to_string(o.size.clauses) + " clauses, " + std::to_string(o.size.variables) +
+            " auxiliary variables";
+    writer_.comment(text);
+    if (progress_ != nullptr) tick();
+  }
+
+  Writer& writer_;
+  model_encoder<Sink>& encoder_;
+  std::function<void()> header_;
+  bool comments_;
+  progress_line* progress_;
+};
+
+model_encoding_summary dry_run_cnf(model_stream& in, const model_encoding_settings& settings) {
+  counting_sink sink;
+  variable_pool pool;
+  model_encoder<counting_sink> encoder(sink, pool, settings);
+  in.run(encoder);
+  return encoder.summary();
+}
+
+model_encoding_summary dry_run_wcnf(model_stream& in, const model_encoding_settings& settings) {
+  measuring_sink sink(std::numeric_limits<std::uint64_t>::max());
+  variable_pool pool;
+  model_encoder<measuring_sink> encoder(sink, pool, settings);
+  in.run(encoder);
+  return encoder.summary();
+}
+
+model_encoding_summary write_cnf(model_stream& in, byte_output& out, const model_encoding_settings& settings,
+                                 const std::optional<model_encoding_summary>& exact, const encode_request& r,
+                                 progress_line& progress) {
+  dimacs_writer writer(out);
+  variable_pool pool;
+  model_encoder<dimacs_writer> encoder(writer, pool, settings);
+  std::function<void()> header = [&] {
+    if (exact)
+      writer.begin(exact->variables, exact->hard_clauses);
+    else
+      writer.begin_patched();
+  };
+  encode_front<dimacs_writer, dimacs_writer> front(writer, encoder, header, r.comments, &progress);
+  in.run(front);
+  writer.finish(pool.top());
+  const model_encoding_summary s = encoder.summary();
+  progress.done(s.constraints, s.hard_clauses);
+  return s;
+}
+
+model_encoding_summary write_wcnf(model_stream& in, byte_output& out, const model_encoding_settings& settings,
+                                  const std::optional<model_encoding_summary>& exact, const encode_request& r,
+                                  progress_line& progress) {
+  wcnf_writer writer(out, r.older_wcnf ? wcnf_style::older : wcnf_style::current);
+  variable_pool pool;
+  model_encoder<wcnf_writer> encoder(writer, pool, settings);
+  std::function<void()> header;
+  if (r.older_wcnf) {
+    header = [&] {
+      const auto top = static_cast<std::int64_t>(exact->soft_weight_sum) + 1;
+      writer.begin_older(exact->variables, exact->hard_clauses + exact->soft_clauses, top);
+    };
+  }
+  encode_front<wcnf_writer, wcnf_writer> front(writer, encoder, header, r.comments, &progress);
+  in.run(front);
+  writer.finish();
+  const model_encoding_summary s = encoder.summary();
+  if (exact && (s.hard_clauses != exact->hard_clauses || s.soft_clauses != exact->soft_clauses ||
+                s.variables != exact->variables))
+    throw error(error_id::usage, "the written WCNF differs from its dry run");
+  progress.done(s.constraints, s.hard_clauses + s.soft_clauses);
+  return s;
+}
+
+int run_encode(const encode_request& r) {
+  model_encoding_settings settings;
+  settings.policy = policy_from_name(r.pick);
+  settings.methods = methods_from_names(r.methods);
+  settings.options.full_equivalence = r.full_equivalence;
+  settings.clause_budget = r.budget;
+  settings.objective_bound = r.objective_bound;
+  bool wcnf = r.format == "wcnf" || (r.format.empty() && (ends_with(r.output, ".wcnf") || r.older_wcnf));
+  if (r.format == "cnf" && r.older_wcnf) throw error(error_id::usage, "--older-wcnf asks for WCNF, but --format is cnf");
+  if (r.format != "cnf" && r.format != "wcnf" && !r.format.empty())
+    throw error(error_id::usage, "unknown format '" + r.format + "'; valid formats: cnf, wcnf");
+  wcnf = wcnf || r.older_wcnf;
+  const bool to_stdout = r.output.empty() || r.output == "-";
+
+  model_stream in(r.model);
+  progress_line progress(r.progress, r.no_progress || (to_stdout && ::isatty(STDOUT_FILENO) == 1));
+  model_encoding_summary s;
+  if (!wcnf) {
+    if (to_stdout) {
+      const auto exact = dry_run_cnf(in, settings);
+      fd_output out(STDOUT_FILENO, "standard output");
+      s = write_cnf(in, out, settings, exact, r, progress);
+    } else {
+      atomic_file_output out(r.output);
+      s = write_cnf(in, out, settings, std::nullopt, r, progress);
+      out.commit();
+    }
+    if (s.skipped_soft != 0)
+      std::fprintf(stderr,
+                   "clausewright: note: %llu soft constraints are not part of CNF output (use --format wcnf)\n",
+                   static_cast<unsigned long long>(s.skipped_soft));
+  } else {
+    std::optional<model_encoding_summary> exact;
+    if (to_stdout || r.older_wcnf) exact = dry_run_wcnf(in, settings);
+    if (to_stdout) {
+      fd_output out(STDOUT_FILENO, "standard output");
+      s = write_wcnf(in, out, settings, exact, r, progress);
+    } else {
+      atomic_file_output out(r.output);
+      s = write_wcnf(in, out, settings, exact, r, progress);
+      out.commit();
+    }
+  }
+  return exit_success;
+}
+
+}  // namespace
+
+void register_encode(CLI::App& app, command_context& context) {
+  auto* cmd = app.add_subcommand("encode", "Encode a model (OPB or JSON) into DIMACS CNF or WCNF");
+  auto r = std::make_shared<encode_request>();
+  cmd->add_option("MODEL", r->model, "Model file (.opb or .json, else by content), or - for standard input")
+      ->required();
+  cmd->add_option("-o,--output", r->output, "Output file (default: standard output)");
+  cmd->add_option("--format", r->format,
+                  "cnf or wcnf (default: wcnf when OUT ends in .wcnf, else cnf); CNF keeps the hard constraints only");
+  // One name per --method: a vector option would otherwise swallow MODEL too.
+  cmd->add_option("--method", r->methods,
+                  "Encode every constraint this method can encode with it (repeatable; the first that applies "
+                  "wins); the others follow the model's choice or the policy")
+      ->allow_extra_args(false);
+  cmd->add_option("--objective-bound", r->objective_bound, "Add \"objective <= B\" as a hard constraint");
+  cmd->add_option("--pick", r->pick, "Selection policy: smallest, smallest-arc-consistent, balanced (default)");
+  cmd->add_flag("--older-wcnf", r->older_wcnf, "WCNF with the older 'p wcnf V C TOP' header and weighted hard clauses");
+  cmd->add_flag("--comments", r->comments,
+                "Write comment lines: the variable map (name and number), and per constraint its method and size");
+  cmd->add_flag("--full-equivalence", r->full_equivalence,
+                "Define auxiliary variables in both directions (default: only the direction needed)");
+  cmd->add_option("--budget", r->budget, "Clause budget of each dry run when the policy measures methods");
+  cmd->add_flag("--progress", r->progress, "Show the progress line on standard error even when it is not a terminal");
+  cmd->add_flag("--no-progress", r->no_progress, "Never show the progress line");
+  cmd->callback([&context, r] { context.exit_code = run_encode(*r); });
+}
+
+}  // namespace clausewright::tool

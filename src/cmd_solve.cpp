@@ -1,0 +1,308 @@
+// clausewright solve MODEL [--time-limit SECONDS] [--json] [--search linear|binary] [--stats]
+//                   [--method NAME]... [--pick POLICY] [--bound METHOD]
+//
+// Encodes the model straight into the embedded CaDiCaL (the same encoding
+// `encode` writes) and solves it there. A model without an objective and
+// without soft constraints is a question of satisfiability. Otherwise the
+// value minimised is the objective plus the weights of the soft constraints
+// not satisfied, and the optimum is found and proved by tightening a bound on
+// it between solver calls (optimize.hpp): linear search from the top by
+// default, binary search by option. Each improving solution is reported on
+// standard error as it is found; the final status, the value and the
+// assignment of the model's variables go to standard output (as JSON with
+// --json). When the time limit ends the search, the best solution so far is
+// "satisfiable". Exit codes: 0 a solution, or none found in the time limit
+// ("unknown", not a negative answer); 1 unsatisfiable; 2 bad input or usage.
+//
+// --stats first prints the size table of `clausewright stats` for the model
+// (every applicable method on every constraint, and the picks), by running
+// that command; with --json it goes to standard error.
+#include <unistd.h>
+
+#include <algorithm>
+#include <chrono>
+#include <cmath>
+#include <cstdio>
+#include <memory>
+#include <optional>
+#include <string>
+#include <vector>
+
+#include <clausewright/cadical.hpp>
+#include <clausewright/optimize.hpp>
+#include <nlohmann/json.hpp>
+
+#include "commands.hpp"
+#include "model_file.hpp"
+
+namespace clausewright::tool {
+
+namespace {
+
+using json = nlohmann::ordered_json;
+
+struct solve_request {
+  std::string model;
+  double time_limit = -1;  // seconds; negative: none
+  bool as_json = false;
+  std::string search = "linear";
+  bool stats = false;
+  std::vector<std::string> methods;
+  std::string pick = "balanced";
+  std::string bound = "automatic";
+};
+
+// Where model_encoder writes: clauses into the solver, soft clauses (the
+// objective's terms and the relaxation units of soft constraints, as the
+// WCNF output has them) into the objective the search minimises.
+class solving_sink {
+ public:
+  solving_sink(cadical_solver& solver, variable_pool& pool, objective& cost)
+      : solver_(solver), pool_(pool), cost_(cost) {}
+
+  void add_clause(std::span<const literal> clause) { solver_.add_clause(clause); }
+  void add_soft_clause(std::int64_t weight, std::span<const literal> clause) {
+    if (clause.empty()) {
+      cost_.add_constant(weight);
+    } else if (clause.size() == 1) {
+      cost_.add(weight, ~clause[0]);
+    } else {
+      // r -> clause, and weight when r is false.
+      const literal r = pool_.fresh();
+      scratch_.assign(clause.begin(), clause.end());
+      scratch_.push_back(~r);
+      solver_.add_clause(scratch_);
+      cost_.add(weight, ~r);
+    }
+  }
+
+ private:
+  cadical_solver& solver_;
+  variable_pool& pool_;
+  objective& cost_;
+  std::vector<literal> scratch_;
+};
+
+// Runs `clausewright stats` on the model, onto standard error when asked.
+void print_stats(const solve_request& r, bool to_stderr) {
+  if (r.model == "-")
+    throw error(error_id::usage, "--stats reads the model twice: give a file, not standard input");
+  std::vector<std::string> args{"clausewright", "stats", r.model, "--pick", r.pick};
+  for (const auto& m : r.methods) {
+    args.emplace_back("--method");
+    args.push_back(m);
+  }
+  std::vector<const char*> argv;
+  argv.reserve(args.size());
+  for (const auto& a : args) argv.push_back(a.c_str());
+  CLI::App inner;
+  command_context context;
+  register_stats(inner, context);
+  std::fflush(stdout);
+  int saved = -1;
+  if (to_stderr) {
+    saved = ::dup(STDOUT_FILENO);
+    if (saved >= 0) static_cast<void>(::dup2(STDERR_FILENO, STDOUT_FILENO));
+  }
+  auto restore = [&] {
+    std::fflush(stdout);
+    if (saved >= 0) {
+      static_cast<void>(::dup2(saved, STDOUT_FILENO));
+      ::close(saved);
+      saved = -1;
+    }
+  };
+  try {
+    inner.parse(static_cast<int>(argv.size()), argv.data());
+  } catch (...) {
+    restore();
+    throw;
+  }
+  restore();
+  std::printf("\n");
+}
+
+// The value minimised, on the model's own terms: the objective's terms plus
+// the weights of the soft constraints an assignment does not satisfy.
+struct model_cost {
+  wide_int objective_terms = 0;
+  wide_int soft = 0;
+  std::uint64_t soft_unsatisfied = 0;
+  [[nodiscard]] wide_int total() const { return objective_terms + soft; }
+};
+
+model_cost cost_of(const model& m, const std::vector<bool>& values) {
+  const auto value = [&values](std::int32_t v) {
+    return static_cast<std::size_t>(v) < values.size() && values[static_cast<std::size_t>(v)];
+  };
+  model_cost c;
+  if (m.has_objective()) c.objective_terms = m.objective_value(value);
+  if (m.soft_constraints() != 0)
+    for (const violation& v : m.check(value))
+      if (v.soft()) {
+        c.soft += v.weight;
+        ++c.soft_unsatisfied;
+      }
+  return c;
+}
+
+std::int64_t to_int64(wide_int v, const char* what) {
+  if (v > INT64_MAX || v < INT64_MIN) throw error(error_id::overflow, std::string(what) + " overflows the 64-bit range");
+  return static_cast<std::int64_t>(v);
+}
+
+int run_solve(const solve_request& r) {
+  const auto started = solver_clock::now();
+  const std::optional<bound_method> bound = find_bound_method(r.bound);
+  if (!bound) {
+    std::string valid;
+    for (const bound_method b : all_bound_methods) valid += (valid.empty() ? "" : ", ") + std::string(to_string(b));
+    throw error(error_id::usage, "unknown objective bound method '" + r.bound + "'; valid ones: " + valid);
+  }
+  model_encoding_settings settings;
+  settings.policy = policy_from_name(r.pick);
+  settings.methods = methods_from_names(r.methods);
+
+  model m;
+  {
+    file_source in(r.model);
+    m = load_model(in);
+  }
+  if (r.stats) print_stats(r, r.as_json);
+
+  cadical_solver solver;
+  variable_pool pool;
+  objective cost;
+  solving_sink sink(solver, pool, cost);
+  const model_encoding_summary summary = encode_model(m, sink, pool, settings);
+  cost.add_constant(to_int64(summary.objective_offset, "the objective's constant"));
+  const bool optimising = m.has_objective() || m.soft_constraints() != 0;
+  std::fprintf(stderr, "clausewright: %llu constraints into CaDiCaL: %llu clauses, %d variables (%d of the model)\n",
+               static_cast<unsigned long long>(summary.constraints),
+               static_cast<unsigned long long>(summary.hard_clauses), pool.top(), m.variables());
+
+  optimize_options options;
+  options.search = r.search == "binary" ? search_strategy::binary : search_strategy::linear;
+  if (r.time_limit >= 0) {
+    const auto spent = std::chrono::duration<double>(solver_clock::now() - started);
+    options.time_limit = std::max(std::chrono::duration<double>(r.time_limit) - spent, std::chrono::duration<double>(0));
+  }
+  options.record_variables = m.variables();
+  options.bound.method = *bound;
+  options.bound.policy = settings.policy;
+  options.evaluate = [&m](const std::vector<bool>& values) { return to_int64(cost_of(m, values).total(), "the cost"); };
+  options.on_solution = [found = std::uint64_t{0}](const improving_solution& s) mutable {
+    std::fprintf(stderr, "clausewright: solution %llu: objective %lld (%.3f s)\n",
+                 static_cast<unsigned long long>(++found), static_cast<long long>(s.objective), s.seconds);
+  };
+
+  optimize_result result;
+  if (optimising) {
+    objective_bound<cadical_solver> bounds(solver, pool, cost, options.bound);
+    result = minimize(solver, pool, bounds, options);
+    std::fprintf(stderr, "clausewright: objective bounds by %s: %llu clauses, %llu variables\n",
+                 std::string(to_string(result.bound)).c_str(),
+                 static_cast<unsigned long long>(result.bound_size.clauses),
+                 static_cast<unsigned long long>(result.bound_size.variables));
+  } else {
+    result = satisfy(solver, pool, options);
+  }
+  const bool has_solution = result.status == optimize_status::optimal || result.status == optimize_status::satisfiable;
+  const std::string status(to_string(result.status));
+  std::fprintf(stderr, "clausewright: %s after %llu solver calls, %.3f s\n", status.c_str(),
+               static_cast<unsigned long long>(result.solves),
+               std::chrono::duration<double>(solver_clock::now() - started).count());
+
+  model_cost decoded;
+  if (has_solution) decoded = cost_of(m, result.values);
+  if (r.as_json) {
+    json out;
+    out["status"] = status;
+    out["objective"] = has_solution && optimising ? json(*result.objective) : json(nullptr);
+    out["lower_bound"] = optimising && result.status != optimize_status::unsatisfiable &&
+                                 result.status != optimize_status::unknown
+                             ? json(result.lower_bound)
+                             : json(nullptr);
+    if (m.has_objective())
+      out["objective_terms"] = has_solution ? json(to_int64(decoded.objective_terms, "the objective")) : json(nullptr);
+    if (m.soft_constraints() != 0) {
+      out["soft_cost"] = has_solution ? json(to_int64(decoded.soft, "the soft cost")) : json(nullptr);
+      out["soft_unsatisfied"] = has_solution ? json(decoded.soft_unsatisfied) : json(nullptr);
+    }
+    if (has_solution) {
+      json assignment = json::object();
+      for (std::int32_t v = 1; v <= m.variables(); ++v)
+        assignment[m.name_of(v)] = static_cast<bool>(result.values[static_cast<std::size_t>(v)]);
+      out["assignment"] = std::move(assignment);
+    } else {
+      out["assignment"] = nullptr;
+    }
+    out["search"] = std::string(to_string(options.search));
+    out["solutions"] = result.solutions;
+    out["solver_calls"] = result.solves;
+    out["seconds"] = std::chrono::duration<double>(solver_clock::now() - started).count();
+    std::printf("%s\n", out.dump(2).c_str());
+  } else {
+    std::string block = "status " + status + "\n";
+    if (has_solution && optimising) block += "objective " + std::to_string(*result.objective) + "\n";
+    if (has_solution && m.soft_constraints() != 0)
+      block += "soft cost " + to_string(decoded.soft) + " (" + std::to_string(decoded.soft_unsatisfied) + " of " +
+               std::to_string(m.soft_constraints()) + " soft constraints not satisfied)\n";
+    if (result.status == optimize_status::satisfiable && optimising)
+      block += "lower bound " + std::to_string(result.lower_bound) + " (not proved optimal)\n";
+    if (has_solution) {
+      for (std::int32_t v = 1; v <= m.variables(); ++v) {
+        block += m.name_of(v);
+        block += result.values[static_cast<std::size_t>(v)] ? " = 1\n" : " = 0\n";
+        if (block.size() > (1U << 16)) {
+          std::fputs(block.c_str(), stdout);
+          block.clear();
+        }
+      }
+    }
+    std::fputs(block.c_str(), stdout);
+  }
+  return result.status == optimize_status::unsatisfiable ? exit_negative : exit_success;
+}
+
+}  // namespace
+
+void register_solve(CLI::App& app, command_context& context) {
+  auto* cmd = app.add_subcommand("solve",
+                                 "Solve a model with the embedded CaDiCaL: decide satisfiability, or find and prove "
+                                 "the optimum of its objective and soft constraints");
+  auto r = std::make_shared<solve_request>();
+  cmd->add_option("MODEL", r->model, "Model file (.opb or .json, else by content), or - for standard input")
+      ->required();
+  cmd->add_option("--time-limit", r->time_limit,
+                  "Stop after this many seconds (the best solution so far is reported as satisfiable)")
+      ->check(CLI::Validator(
+          [](std::string& text) {
+            double seconds = -1;
+            std::size_t used = 0;
+            try {
+              seconds = std::stod(text, &used);
+            } catch (const std::exception&) {
+              used = 0;
+            }
+            if (used != text.size() || !(seconds >= 0) || seconds == HUGE_VAL)
+              return "expected a number of seconds >= 0, found '" + text + "'";
+            return std::string();
+          },
+          "SECONDS", "seconds"));
+  cmd->add_flag("--json", r->as_json,
+                "Print the result as JSON: status, objective (integer or null), assignment (name -> true/false)");
+  cmd->add_option("--search", r->search, "linear (default: from the top, each solution tightens the bound) or binary")
+      ->check(CLI::IsMember({"linear", "binary"}));
+  cmd->add_flag("--stats", r->stats,
+                "First print the size table of every applicable encoding per constraint and the picks (as "
+                "`clausewright stats`)");
+  cmd->add_option("--method", r->methods, "As for encode: the methods to use where they apply (repeatable)");
+  cmd->add_option("--pick", r->pick, "Selection policy: smallest, smallest-arc-consistent, balanced (default)");
+  cmd->add_option("--bound", r->bound,
+                  "How the objective is bounded: automatic (default), totalizer, sequential-counter, "
+                  "generalized-totalizer, sequential-weight-counter, bdd, adder, reencode");
+  cmd->callback([&context, r] { context.exit_code = run_solve(*r); });
+}
+
+}  // namespace clausewright::tool

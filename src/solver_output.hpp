@@ -1,0 +1,36 @@
+// clausewright tool: reading a SAT or MaxSAT solver's answer.
+//
+// Accepted, after the SAT Competition and MaxSAT Evaluation output rules:
+//   c ...                      comments
+//   s SATISFIABLE | s UNSATISFIABLE | s OPTIMUM FOUND | s UNKNOWN
+//   o 17                       a MaxSAT cost (kept, not needed)
+//   v 1 -2 3 0                 literals, over any number of v lines
+//   v 0110                     the MaxSAT Evaluation's string of 0/1 values
+// or a bare list of literals (one or more lines of integers, 0 optional).
+#pragma once
+
+#include <cstdint>
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "input.hpp"
+
+namespace clausewright::tool {
+
+enum class answer_status { none, satisfiable, unsatisfiable, optimum, unknown };
+
+struct solver_answer {
+  answer_status status = answer_status::none;
+  // values[v] for v in 1..variables: 1 true, -1 false, 0 not given.
+  std::vector<std::int8_t> values;
+  std::uint64_t given = 0;  // variables among 1..variables with a value
+  bool any_literal = false;
+  std::optional<std::string> cost;
+};
+
+// Reads the answer, keeping the values of variables 1..variables (others
+// are checked for form and dropped).
+[[nodiscard]] solver_answer read_solver_output(byte_source& in, std::int32_t variables);
+
+}  // namespace clausewright::tool
