@@ -387,8 +387,13 @@ class json_reader {
       const bool allowed = key == "type" || key == "name" || key == "weight" || key == "method" ||
                            key == "description" || (counted && key == "literals") || (takes_k && key == "k") ||
                            (!counted && (key == "terms" || key == "relation" || key == "bound"));
-      if (!allowed)
-        fail(child(at, key), "key \"" + key + "\" does not belong to a constraint of type " + t, true);
+      if (!allowed) {
+        std::string message = "key \"";
+        message += key;
+        message += "\" does not belong to a constraint of type ";
+        message += t;
+        fail(child(at, key), message, true);
+      }
     }
     const auto require = [&](const char* key) {
       if (!c.contains(key)) fail(at, "a constraint of type " + t + " needs \"" + key + "\"");

@@ -797,9 +797,9 @@ class model_encoder final : public model_handler {
 template <class Sink>
 model_encoding_summary encode_model(const model& m, Sink& sink, variable_pool& pool,
                                     const model_encoding_settings& settings = {},
-                                    std::function<void(const constraint_outcome&)> on_constraint = {}) {
+                                    const std::function<void(const constraint_outcome&)>& on_constraint = {}) {
   model_encoder<Sink> encoder(sink, pool, settings);
-  encoder.on_constraint = std::move(on_constraint);
+  encoder.on_constraint = on_constraint;
   m.replay(encoder);
   return encoder.summary();
 }
