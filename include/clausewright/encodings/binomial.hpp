@@ -74,16 +74,15 @@ void encode_binomial(Sink& out, variable_pool& /*pool*/, const normalized_constr
     out.add_clause(std::span<const literal>(c.literals));
     return;
   }
-  const auto n = static_cast<std::int64_t>(c.size());
   const std::int64_t k = c.bound;
-  const bool needs_at_most = c.rel != relation::ge;
-  const bool needs_at_least = c.rel != relation::le;
-  if ((needs_at_most && k < 0) || (needs_at_least && k > n)) {
+  const cardinality_sides need = needed_sides(c);
+  if (need.impossible) {
     out.add_clause(std::span<const literal>());
     return;
   }
-  const bool at_most = needs_at_most && k < n;
-  const bool at_least = needs_at_least && k > 0;
+  const bool at_most = need.at_most;
+  const bool at_least = need.at_least;
+  const auto n = static_cast<std::int64_t>(c.size());
   const auto un = static_cast<std::uint64_t>(n);
   const auto uk = static_cast<std::uint64_t>(k);
   std::uint64_t total = 0;

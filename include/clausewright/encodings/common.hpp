@@ -49,6 +49,27 @@ struct unary_outputs {
   [[nodiscard]] literal at_most(std::size_t j) const { return ~outputs.at(j); }
 };
 
+// Which sides of sum {<=, >=, =} k a cardinality method has to assert, after
+// the cases that need no counter: `impossible` (emit the empty clause), or
+// neither side (nothing to emit).
+struct cardinality_sides {
+  bool impossible = false;
+  bool at_most = false;   // assert "count <= bound"
+  bool at_least = false;  // assert "count >= bound"
+};
+
+[[nodiscard]] inline cardinality_sides needed_sides(const normalized_constraint& c) noexcept {
+  const auto n = static_cast<std::int64_t>(c.size());
+  const std::int64_t k = c.bound;
+  const bool needs_at_most = c.rel != relation::ge;
+  const bool needs_at_least = c.rel != relation::le;
+  cardinality_sides s;
+  s.impossible = (needs_at_most && k < 0) || (needs_at_least && k > n);
+  s.at_most = !s.impossible && needs_at_most && k < n;
+  s.at_least = !s.impossible && needs_at_least && k > 0;
+  return s;
+}
+
 // Throws unless the constraint has unit coefficients (cardinality methods).
 inline void require_unit_coefficients(const normalized_constraint& c, const char* method) {
   if (!c.unit_coefficients())

@@ -208,16 +208,14 @@ void encode_totalizer(Sink& out, variable_pool& pool, const normalized_constrain
     out.add_clause(std::span<const literal>(c.literals));
     return;
   }
-  const auto n = static_cast<std::int64_t>(c.size());
   const std::int64_t k = c.bound;
-  const bool needs_at_most = c.rel != relation::ge;
-  const bool needs_at_least = c.rel != relation::le;
-  if ((needs_at_most && k < 0) || (needs_at_least && k > n)) {
+  const cardinality_sides need = needed_sides(c);
+  if (need.impossible) {
     out.add_clause(std::span<const literal>());
     return;
   }
-  const bool at_most = needs_at_most && k < n;
-  const bool at_least = needs_at_least && k > 0;
+  const bool at_most = need.at_most;
+  const bool at_least = need.at_least;
   if (!at_most && !at_least) return;
   const auto cut = static_cast<std::size_t>(at_most ? k + 1 : k);
   const totalizer tree(out, pool, c.literals, cut, sides_for(c.rel, options));
