@@ -79,6 +79,7 @@ child_result run_command(const std::vector<std::string>& argv, const std::string
       if (std::freopen(stdout_path.c_str(), "w", stdout) == nullptr) return 4;
     }
     std::vector<char*> args;
+    args.reserve(argv.size() + 1);
     for (const auto& a : argv) args.push_back(const_cast<char*>(a.c_str()));
     args.push_back(nullptr);
     ::execv(args[0], args.data());

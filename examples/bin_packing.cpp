@@ -58,11 +58,13 @@ int main() {
 
   for (int f = 0; f < folders; ++f) {
     std::vector<cw::literal> where;
+    where.reserve(static_cast<std::size_t>(discs));
     for (int d = 0; d < discs; ++d) where.push_back(on(f, d));
     enc.exactly_one(where);
   }
   for (int d = 0; d < discs; ++d) {
     std::vector<cw::term> load;
+    load.reserve(static_cast<std::size_t>(folders) + 1);
     for (int f = 0; f < folders; ++f) load.push_back({folder_size[static_cast<std::size_t>(f)], on(f, d)});
     load.push_back({-disc_capacity, used(d)});
     const auto c = enc.linear(load, cw::relation::le, 0);

@@ -76,11 +76,11 @@ int main() {
     if (!result.value(take(i))) continue;
     weight += items[i].weight;
     value += items[i].value;
-    std::printf("  %-14s %4lld g  value %2lld\n", items[i].name, static_cast<long long>(items[i].weight * 100),
+    std::printf("  %-14s %4lld g  value %2lld\n", items[i].name, static_cast<long long>(items[i].weight) * 100,
                 static_cast<long long>(items[i].value));
   }
-  std::printf("total %lld g of %lld g, value %lld of %lld (left behind %lld)\n", static_cast<long long>(weight * 100),
-              static_cast<long long>(weight_limit * 100), static_cast<long long>(value),
+  std::printf("total %lld g of %lld g, value %lld of %lld (left behind %lld)\n", static_cast<long long>(weight) * 100,
+              static_cast<long long>(weight_limit) * 100, static_cast<long long>(value),
               static_cast<long long>(all_value), static_cast<long long>(*result.objective));
   // The decoded packing must respect the limit and have the value reported.
   return weight <= weight_limit && all_value - value == *result.objective ? 0 : 1;

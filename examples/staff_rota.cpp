@@ -67,6 +67,7 @@ int main() {
   for (int d = 0; d < days; ++d)
     for (int s = 0; s < shifts; ++s) {
       std::vector<cw::literal> staff;
+      staff.reserve(people);
       for (int p = 0; p < people; ++p) staff.push_back(works(p, d, s));
       enc.exactly(staff, need[static_cast<std::size_t>(d)][static_cast<std::size_t>(s)]);
     }
@@ -92,6 +93,7 @@ int main() {
   }
   for (int p = 0; p < people; ++p) {
     std::vector<cw::term> lates;
+    lates.reserve(days);
     for (int d = 0; d < days; ++d) lates.push_back({1, works(p, d, 1)});
     static_cast<void>(cw::add_soft(solver, pool, given_up, late_weight, lates, cw::relation::le, late_limit));
   }

@@ -14,6 +14,17 @@
 // "satisfiable". Exit codes: 0 a solution, or none found in the time limit
 // ("unknown", not a negative answer); 1 unsatisfiable; 2 bad input or usage.
 //
+// Text output: "status S", then "objective V" when there is one (and "soft
+// cost ..." with soft constraints, "lower bound ..." when the search was
+// stopped), then "name = 0|1" per variable of the model. JSON output: an
+// object with "status" ("optimal", "satisfiable", "unsatisfiable",
+// "unknown"), "objective" (the value minimised, an integer, or null without
+// a solution or without an objective), "lower_bound" (proved; null when
+// nothing is proved), "objective_terms" (the objective's own terms, when
+// the model has an objective), "soft_cost" and "soft_unsatisfied" (when it
+// has soft constraints), "assignment" (variable name -> true/false, in the
+// model's order, or null), "search", "solutions", "solver_calls", "seconds".
+//
 // --stats first prints the size table of `clausewright stats` for the model
 // (every applicable method on every constraint, and the picks), by running
 // that command; with --json it goes to standard error.
@@ -191,9 +202,22 @@ int run_solve(const solve_request& r) {
   options.bound.method = *bound;
   options.bound.policy = settings.policy;
   options.evaluate = [&m](const std::vector<bool>& values) { return to_int64(cost_of(m, values).total(), "the cost"); };
-  options.on_solution = [found = std::uint64_t{0}](const improving_solution& s) mutable {
-    std::fprintf(stderr, "clausewright: solution %llu: objective %lld (%.3f s)\n",
-                 static_cast<unsigned long long>(++found), static_cast<long long>(s.objective), s.seconds);
+  options.on_solution = [&m, found = std::uint64_t{0}](const improving_solution& s) mutable {
+    // The variables set true, the first few of them: enough to follow the
+    // search without flooding the terminal on large models.
+    std::string shown;
+    std::uint64_t more = 0;
+    for (std::int32_t v = 1; v <= m.variables(); ++v) {
+      if (!s.values[static_cast<std::size_t>(v)]) continue;
+      if (shown.size() < 200)
+        shown += " " + m.name_of(v);
+      else
+        ++more;
+    }
+    if (more != 0) shown += " ... (" + std::to_string(more) + " more)";
+    std::fprintf(stderr, "clausewright: solution %llu: objective %lld (%.3f s); true:%s\n",
+                 static_cast<unsigned long long>(++found), static_cast<long long>(s.objective), s.seconds,
+                 shown.empty() ? " none" : shown.c_str());
   };
 
   optimize_result result;

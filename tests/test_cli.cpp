@@ -723,7 +723,7 @@ TEST_F(cli, DecodeReadsTheAnswerForms) {
   // x1 + x2 + x3 = 1 over three variables; the answers below hold it or not.
   const auto model = write("m.opb", "* #variable= 3 #constraint= 1\n+1 x1 +1 x2 +1 x3 = 1 ;\n");
   const auto check = [&](const std::string& answer, int code) {
-    const auto r = run("decode " + quote(model) + " " + quote(write("a.txt", answer)));
+    auto r = run("decode " + quote(model) + " " + quote(write("a.txt", answer)));
     EXPECT_EQ(r.code, code) << answer << "\n" << r.out << r.err;
     return r;
   };

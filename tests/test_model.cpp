@@ -291,8 +291,10 @@ TEST(ModelEncoding, ObjectiveBoundIsAHardConstraint) {
 TEST(ModelEncoding, MethodOverridesTakeTurns) {
   cw::model m;
   std::vector<cw::literal> xs;
+  xs.reserve(6);
   for (int i = 0; i < 6; ++i) xs.push_back(m.variable("v" + std::to_string(i)));
   std::vector<cw::term> terms;
+  terms.reserve(xs.size());
   for (const auto x : xs) terms.push_back({1, x});
   cw::constraint_settings own;
   own.method = cw::method_id::ladder;
@@ -324,6 +326,7 @@ TEST(ModelEncoding, MethodOverridesTakeTurns) {
   // naming the constraint.
   cw::model bad;
   std::vector<cw::term> t3;
+  t3.reserve(4);
   for (int i = 0; i < 4; ++i) t3.push_back({1, bad.variable("w" + std::to_string(i))});
   cw::constraint_settings wrong;
   wrong.method = cw::method_id::pairwise;
@@ -349,9 +352,10 @@ TEST(ModelEncoding, PickCacheAgreesWithSelection) {
     std::vector<cw::term> terms;
     const int n = 2 + static_cast<int>(rng() % 6);
     const bool unit = i % 2 == 0;
+    terms.reserve(static_cast<std::size_t>(n));
     for (int j = 0; j < n; ++j) terms.push_back({unit ? 1 : 1 + static_cast<std::int64_t>(rng() % 5), lit(j + 1)});
     const auto rel = static_cast<cw::relation>(rng() % 3);
-    const auto c = cw::normalize(terms, rel, static_cast<std::int64_t>(rng() % (2 * n)));
+    const auto c = cw::normalize(terms, rel, static_cast<std::int64_t>(rng() % static_cast<std::uint64_t>(2 * n)));
     if (c.is_constant() || c.kind == cw::constraint_kind::clause) continue;
     cw::variable_pool pool(8);
     for (const auto policy :
@@ -370,6 +374,7 @@ TEST(ModelEncoding, MeasurementEqualsWhatIsWritten) {
   for (int i = 0; i < 60; ++i) {
     std::vector<cw::term> terms;
     const int n = 2 + static_cast<int>(rng() % 6);
+    terms.reserve(static_cast<std::size_t>(n));
     for (int j = 0; j < n; ++j) terms.push_back({1 + static_cast<std::int64_t>(rng() % 4), lit(j + 1)});
     const auto c = cw::normalize(terms, static_cast<cw::relation>(i % 3), static_cast<std::int64_t>(rng() % 10));
     for (const auto& m : cw::method_table) {

@@ -57,6 +57,13 @@ failure read_error(const std::string& text) {
     EXPECT_NE(f_.message.find(part), std::string::npos) << f_.message;    \
   } while (false)
 
+// Ten million copies of one character: a 10 MB line.
+std::string repeated(char c) {
+  std::string s;
+  s.resize(10'000'000, c);
+  return s;
+}
+
 }  // namespace
 
 TEST(OpbReader, HandWrittenSample) {
@@ -227,7 +234,7 @@ TEST(OpbErrors, CoefficientsBeyond64Bits) {
   EXPECT_ERROR_AT("* #variable= 2 #constraint= 1\n-9223372036854775809 x2 >= 1 ;\n", 2, 1, "64 bits");
   EXPECT_ERROR_AT("* #variable= 2 #constraint= 1\n+1 x1 >= 99999999999999999999999 ;\n", 2, 10, "64 bits");
   // A coefficient of ten million digits stops at the first digit too many.
-  EXPECT_ERROR_AT("* #variable= 2 #constraint= 1\n+" + std::string(10'000'000, '7') + " x1 >= 1 ;\n", 2, 1,
+  EXPECT_ERROR_AT("* #variable= 2 #constraint= 1\n+" + repeated('7') + " x1 >= 1 ;\n", 2, 1,
                   "does not fit in 64 bits");
 }
 
@@ -256,7 +263,7 @@ TEST(OpbErrors, HugeLines) {
   const std::string text = "* #variable= 2 #constraint= 1\n" + terms + ">= 3\n";
   EXPECT_ERROR_AT(text, 2, terms.size() + 5, "expected ';'");
   // A 10 MB line of garbage is rejected at its first character.
-  EXPECT_ERROR_AT("* #variable= 2 #constraint= 1\n" + std::string(10'000'000, 'q') + "\n", 2, 1, "expected a term");
+  EXPECT_ERROR_AT("* #variable= 2 #constraint= 1\n" + repeated('q') + "\n", 2, 1, "expected a term");
 }
 
 TEST(OpbErrors, HeaderDisagreesWithBody) {

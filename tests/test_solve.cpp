@@ -62,12 +62,12 @@ class dpll_solver {
     assumptions_.clear();
     failed_.clear();
     nodes_ = 0;
-    std::vector<signed char> a(static_cast<std::size_t>(variables_) + 1, 0);
+    std::vector<int> a(static_cast<std::size_t>(variables_) + 1, 0);
     bool consistent_assumptions = true;
     for (const int l : assumed) consistent_assumptions = consistent_assumptions && set(a, l);
     if (consistent_assumptions && search(a)) return 10;
     if (nodes_ > node_limit) return 0;
-    std::vector<signed char> empty(a.size(), 0);
+    std::vector<int> empty(a.size(), 0);
     if (!assumed.empty() && search(empty)) failed_ = assumed;
     model_.clear();
     return 20;
@@ -83,16 +83,16 @@ class dpll_solver {
   static constexpr std::uint64_t node_limit = 2'000'000;
 
   void note(int l) { variables_ = std::max(variables_, std::abs(l)); }
-  static int truth(const std::vector<signed char>& a, int l) {
+  static int truth(const std::vector<int>& a, int l) {
     const int v = a[static_cast<std::size_t>(std::abs(l))];
     return l < 0 ? -v : v;
   }
-  static bool set(std::vector<signed char>& a, int l) {
+  static bool set(std::vector<int>& a, int l) {
     if (truth(a, l) < 0) return false;
-    a[static_cast<std::size_t>(std::abs(l))] = static_cast<signed char>(l < 0 ? -1 : 1);
+    a[static_cast<std::size_t>(std::abs(l))] = l < 0 ? -1 : 1;
     return true;
   }
-  bool propagate(std::vector<signed char>& a) const {
+  bool propagate(std::vector<int>& a) const {
     for (bool changed = true; changed;) {
       changed = false;
       for (const auto& clause : clauses_) {
@@ -119,7 +119,7 @@ class dpll_solver {
     }
     return true;
   }
-  bool search(std::vector<signed char>& a) {
+  bool search(std::vector<int>& a) {
     if (++nodes_ > node_limit || !propagate(a)) return false;
     std::size_t v = 1;
     while (v < a.size() && a[v] != 0) ++v;
@@ -127,8 +127,8 @@ class dpll_solver {
       model_ = a;
       return true;
     }
-    for (const signed char value : {static_cast<signed char>(-1), static_cast<signed char>(1)}) {
-      std::vector<signed char> b = a;
+    for (const int value : {-1, 1}) {
+      std::vector<int> b = a;
       b[v] = value;
       if (search(b)) return true;
     }
@@ -139,7 +139,7 @@ class dpll_solver {
   std::vector<int> open_;
   std::vector<int> assumptions_;
   std::vector<int> failed_;
-  std::vector<signed char> model_;
+  std::vector<int> model_;
   int variables_ = 0;
   std::uint64_t nodes_ = 0;
 };
@@ -503,12 +503,14 @@ TEST(Objective, NormalisesSignsRepeatsAndScale) {
 // most j (decided by CaDiCaL over the bound's clauses, inputs assumed).
 // Bounds are asked in the given order in one solver: tightening, loosening
 // past a cut, and repeated questions all go through the same object.
-::testing::AssertionResult bound_is_exact(const cw::objective& goal, std::int32_t inputs, cw::bound_method method,
+::testing::AssertionResult bound_is_exact(const cw::objective& goal, std::int32_t inputs,
+                                          const cw::bound_settings& settings,
                                           const std::vector<std::int64_t>& order) {
   cw::cadical_solver solver;
   cw::variable_pool pool(inputs);
-  cw::objective_bound bound(solver, pool, goal, cw::bound_settings{method});
+  cw::objective_bound bound(solver, pool, goal, settings);
   std::vector<std::pair<std::int64_t, cw::literal>> asked;
+  asked.reserve(order.size());
   for (const std::int64_t j : order) asked.emplace_back(j, bound.at_most(j));
   for (const auto& [j, l] : asked)
     if (bound.at_most(j) != l) return ::testing::AssertionFailure() << "bound " << j << " gave a second literal";
@@ -555,7 +557,7 @@ TEST(ObjectiveBound, EveryMethodIsExactOnRandomWeightedObjectives) {
     for (const auto method : weighted_bounds) {
       SCOPED_TRACE("seed " + std::to_string(seed) + " round " + std::to_string(round) + " method " +
                    std::string(cw::to_string(method)) + " objective " + raw.describe());
-      EXPECT_TRUE(bound_is_exact(goal, raw.max_var(), method, order));
+      EXPECT_TRUE(bound_is_exact(goal, raw.max_var(), cw::bound_settings{method}, order));
     }
   }
 }
@@ -567,9 +569,10 @@ TEST(ObjectiveBound, CountersOnUnitObjectivesAndTheirCuts) {
       cw::objective goal;
       for (std::int32_t v = 1; v <= n; ++v) goal.add(3, v % 3 == 0 ? lit(-v) : lit(v));  // scale 3
       std::vector<std::int64_t> order;
-      for (std::int64_t j = 0; j <= 3 * n + 1; j += 2) order.push_back(j);  // bottom up: past the cut each time
-      for (std::int64_t j = 3 * n; j >= 0; j -= 5) order.push_back(j);
-      EXPECT_TRUE(bound_is_exact(goal, n, method, order));
+      const std::int64_t top = std::int64_t{3} * n;
+      for (std::int64_t j = 0; j <= top + 1; j += 2) order.push_back(j);  // bottom up: past the cut each time
+      for (std::int64_t j = top; j >= 0; j -= 5) order.push_back(j);
+      EXPECT_TRUE(bound_is_exact(goal, n, cw::bound_settings{method}, order));
     }
   }
   // Asked top down, one counter serves every bound; asked bottom up, the
@@ -612,6 +615,8 @@ TEST(ObjectiveBound, BddOverBudgetFallsBackToTheAdderWhenChosenAutomatically) {
     cw::objective_bound bound(solver, pool, goal, settings);
     static_cast<void>(bound.at_most(1000));
     EXPECT_EQ(bound.method(), cw::bound_method::adder);
+    // The bounds after the fallback are exact (CaDiCaL over every assignment).
+    EXPECT_TRUE(bound_is_exact(goal, 10, settings, {1500, 1000, 700, 2, 0}));
   }
   cw::cadical_solver solver;
   cw::variable_pool pool(10);
