@@ -1,8 +1,10 @@
 // Closed-form size predictions equal the dry run (the exact count of what the
 // encoder emits). The formulas themselves are the published ones: pairwise
-// n(n-1)/2 (folklore) and Sinz 2005's 2nk + n - 3k - 1 clauses with k(n-1)
-// auxiliary variables; tests/test_encodings_core.cpp checks those against the
-// papers, this test that the predictor and the encoder agree on every field.
+// n(n-1)/2 (folklore), Sinz 2005's 2nk + n - 3k - 1 clauses with k(n-1)
+// auxiliary variables, the ladder's 3n-4 clauses, bitwise n*ceil(log2 n),
+// Batcher's (t^2 - t + 4) 2^(t-2) - 1 comparators; tests/test_encodings_core.cpp
+// and tests/test_cardinality.cpp check those against the papers, this test
+// that the predictor and the encoder agree on every field.
 #include <clausewright/clausewright.hpp>
 #include <clausewright/predict.hpp>
 #include <gtest/gtest.h>
@@ -32,4 +34,42 @@ TEST(Predict, EqualsTheDryRunWheneverItPredicts) {
                                     << dry.size.literals;
           }
   EXPECT_GT(predicted, 500U);
+}
+
+// The networks at sizes beyond the exhaustive range: the predictor mirrors
+// the merge recursion, so large cut points (m up to 128) are where it could
+// drift from the encoder.
+TEST(Predict, NetworksEqualTheDryRunAtLargerSizes) {
+  std::uint64_t predicted = 0;
+  for (const auto id : {cw::method_id::cardinality_network, cw::method_id::sorting_network})
+    for (const std::int32_t n : {32, 48, 64, 96, 128, 192, 256})
+      for (const std::int64_t k : {1, 2, 3, 7, 8, 15, 16, 31, 33, 63, 64, 100, 127})
+        for (const auto rel : {cw::relation::le, cw::relation::ge, cw::relation::eq})
+          for (const bool full : {false, true}) {
+            if (k > n) continue;
+            const auto c = cw_test::cardinality(n, rel, k, false).normalized();
+            const cw::encode_options options{full};
+            const auto p = cw::predict_size(id, c, options);
+            if (!p) continue;
+            ++predicted;
+            const auto dry = cw::measure(id, cw::variable_pool(n), c, options);
+            ASSERT_EQ(*p, dry.size) << cw::info(id).name << " n=" << n << " k=" << k << " rel "
+                                    << cw::to_string(rel) << (full ? " full" : "");
+          }
+  EXPECT_GT(predicted, 100U);
+}
+
+// Batcher 1968: (t^2 - t + 4) 2^(t-2) - 1 comparators sort 2^t inputs; the
+// predictor's count (clauses / 6 with both sides, every comparator full).
+TEST(Predict, SortingNetworkCountIsBatchers) {
+  // From t = 2: two inputs with k = 1 normalise to a clause.
+  for (std::int32_t t = 2; t <= 12; ++t) {
+    const std::int32_t n = 1 << t;
+    const auto c = cw_test::cardinality(n, cw::relation::le, n / 2, false).normalized();
+    const auto p = cw::predict_size(cw::method_id::sorting_network, c, cw::encode_options{true});
+    ASSERT_TRUE(p.has_value());
+    const std::uint64_t batcher = (static_cast<std::uint64_t>(t * t - t + 4) << (t - 2)) - 1;
+    EXPECT_EQ(p->variables, 2 * batcher) << "t=" << t;
+    EXPECT_EQ(p->clauses, 6 * batcher + 1) << "t=" << t;  // and the unit ~c_(k+1)
+  }
 }

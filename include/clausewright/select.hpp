@@ -3,7 +3,9 @@
 // The size of an encoding is measured exactly by running it into a counting
 // sink with a scratch copy of the variable pool: nothing is stored. A budget
 // stops a dry run that grows past it, so a method that would explode is
-// reported as over budget instead of exhausting time or memory.
+// reported as over budget instead of exhausting time or memory. Where a
+// closed form predicts a size past the budget (predict.hpp), the dry run is
+// not started at all, and the measurement carries the predicted size.
 #pragma once
 
 #include <chrono>
@@ -16,6 +18,7 @@
 #include <vector>
 
 #include "methods.hpp"
+#include "predict.hpp"
 #include "sink.hpp"
 
 namespace clausewright {
@@ -51,6 +54,11 @@ struct method_measurement {
                                                 const normalized_constraint& c, const encode_options& options = {},
                                                 std::uint64_t clause_budget = default_clause_budget) {
   method_measurement m{id, {}, false, 0};
+  if (const auto predicted = predict_size(id, c, options); predicted && predicted->clauses > clause_budget) {
+    m.size = *predicted;
+    m.over_budget = true;
+    return m;
+  }
   variable_pool scratch = pool;
   budget_sink sink(clause_budget);
   const auto start = std::chrono::steady_clock::now();
