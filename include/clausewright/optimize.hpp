@@ -301,38 +301,23 @@ class totalizer_bound final : public bound_backend {
   std::optional<totalizer> tree_;
 };
 
-template <class Sink>
-class sequential_counter_bound final : public bound_backend {
+// The sequential counter (weighted or not) over the objective, built anew
+// with a higher cut when a bound beyond its cut is asked for: its registers
+// depend on the cut, so it cannot be extended in place.
+template <class Sink, bool Weighted>
+class sequential_bound final : public bound_backend {
  public:
-  sequential_counter_bound(Sink& out, variable_pool& pool, const normalized_objective& goal)
+  sequential_bound(Sink& out, variable_pool& pool, const normalized_objective& goal)
       : out_(out), pool_(pool), goal_(goal) {}
   literal at_most(std::int64_t k) override {
     const auto j = static_cast<std::size_t>(k);
     if (j >= counter_.size()) {
-      // Only the upper side: "count >= j+1" forces output j, so ~output j forbids it.
-      counter_ = build_sequential_counter(out_, pool_, goal_.literals, j + 1, sides::upper);
-      ++builds_;
-    }
-    return counter_.at_most(j);
-  }
-
- private:
-  Sink& out_;
-  variable_pool& pool_;
-  const normalized_objective& goal_;
-  unary_outputs counter_;
-};
-
-template <class Sink>
-class sequential_weight_counter_bound final : public bound_backend {
- public:
-  sequential_weight_counter_bound(Sink& out, variable_pool& pool, const normalized_objective& goal)
-      : out_(out), pool_(pool), goal_(goal) {}
-  literal at_most(std::int64_t k) override {
-    const auto j = static_cast<std::size_t>(k);
-    if (j >= counter_.size()) {
-      counter_ = build_sequential_weight_counter(out_, pool_, goal_.literals, goal_.coefficients, k + 1,
-                                                 sides::upper);
+      // Only the upper side: "sum >= j+1" forces output j, so ~output j forbids it.
+      if constexpr (Weighted)
+        counter_ = build_sequential_weight_counter(out_, pool_, goal_.literals, goal_.coefficients, k + 1,
+                                                   sides::upper);
+      else
+        counter_ = build_sequential_counter(out_, pool_, goal_.literals, j + 1, sides::upper);
       ++builds_;
     }
     return counter_.at_most(j);
@@ -538,11 +523,11 @@ class objective_bound {
       case bound_method::totalizer:
         return std::make_unique<detail::totalizer_bound<counted_sink>>(out_, pool_, goal_);
       case bound_method::sequential_counter:
-        return std::make_unique<detail::sequential_counter_bound<counted_sink>>(out_, pool_, goal_);
+        return std::make_unique<detail::sequential_bound<counted_sink, false>>(out_, pool_, goal_);
       case bound_method::generalized_totalizer:
         return std::make_unique<detail::generalized_totalizer_bound<counted_sink>>(out_, pool_, goal_);
       case bound_method::sequential_weight_counter:
-        return std::make_unique<detail::sequential_weight_counter_bound<counted_sink>>(out_, pool_, goal_);
+        return std::make_unique<detail::sequential_bound<counted_sink, true>>(out_, pool_, goal_);
       case bound_method::bdd:
         return std::make_unique<detail::bdd_bound<counted_sink>>(out_, pool_, goal_, settings_.bdd_node_budget,
                                                                  truth_);

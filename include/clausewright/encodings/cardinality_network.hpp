@@ -164,37 +164,10 @@ unary_outputs build_cardinality_network(Sink& out, variable_pool& pool, std::spa
   return detail::take_outputs(net.wires, std::min(inputs.size(), m), which);
 }
 
-namespace detail {
-
-// Asserts sum {<=, >=, =} k on the outputs of a network; `make(needed, which)`
-// builds the network.
-template <class Sink, class Make>
-void encode_with_network(Sink& out, const normalized_constraint& c, const encode_options& options, Make&& make) {
-  require_unit_coefficients(c, "a cardinality network");
-  if (c.kind == constraint_kind::clause) {
-    out.add_clause(std::span<const literal>(c.literals));
-    return;
-  }
-  const std::int64_t k = c.bound;
-  const cardinality_sides need = needed_sides(c);
-  if (need.impossible) {
-    out.add_clause(std::span<const literal>());
-    return;
-  }
-  const bool at_most = need.at_most;
-  const bool at_least = need.at_least;
-  if (!at_most && !at_least) return;
-  const unary_outputs r = make(static_cast<std::size_t>(at_most ? k + 1 : k), sides_for(c.rel, options));
-  if (at_most) emit(out, r.at_most(static_cast<std::size_t>(k)));
-  if (at_least) emit(out, r.at_least(static_cast<std::size_t>(k)));
-}
-
-}  // namespace detail
-
 template <class Sink>
 void encode_cardinality_network(Sink& out, variable_pool& pool, const normalized_constraint& c,
                                 const encode_options& options) {
-  detail::encode_with_network(out, c, options, [&](std::size_t needed, sides which) {
+  detail::encode_with_counter(out, c, options, "a cardinality network", [&](std::size_t needed, sides which) {
     return build_cardinality_network(out, pool, c.literals, needed, which);
   });
 }
@@ -202,7 +175,7 @@ void encode_cardinality_network(Sink& out, variable_pool& pool, const normalized
 template <class Sink>
 void encode_sorting_network(Sink& out, variable_pool& pool, const normalized_constraint& c,
                             const encode_options& options) {
-  detail::encode_with_network(out, c, options, [&](std::size_t /*needed*/, sides which) {
+  detail::encode_with_counter(out, c, options, "a sorting network", [&](std::size_t /*needed*/, sides which) {
     return build_sorting_network(out, pool, c.literals, which);
   });
 }

@@ -77,4 +77,56 @@ inline void require_unit_coefficients(const normalized_constraint& c, const char
                 std::string(method) + " encodes only constraints with equal coefficients", c.where());
 }
 
+namespace detail {
+
+// Asserts sum {<=, >=, =} k on the unary outputs of a counter with unit
+// coefficients; `make(needed, which)` builds a counter whose first `needed`
+// outputs are exact in the sides `which` ("<= k" needs k+1 outputs, ">= k"
+// needs k).
+template <class Sink, class Make>
+void encode_with_counter(Sink& out, const normalized_constraint& c, const encode_options& options, const char* method,
+                         Make&& make) {
+  require_unit_coefficients(c, method);
+  if (c.kind == constraint_kind::clause) {
+    out.add_clause(std::span<const literal>(c.literals));
+    return;
+  }
+  const std::int64_t k = c.bound;
+  const cardinality_sides need = needed_sides(c);
+  if (need.impossible) {
+    out.add_clause(std::span<const literal>());
+    return;
+  }
+  if (!need.at_most && !need.at_least) return;
+  const unary_outputs r = make(static_cast<std::size_t>(need.at_most ? k + 1 : k), sides_for(c.rel, options));
+  if (need.at_most) emit(out, r.at_most(static_cast<std::size_t>(k)));
+  if (need.at_least) emit(out, r.at_least(static_cast<std::size_t>(k)));
+}
+
+// The "<=" (or "=") form of a weighted constraint, for the encodings that
+// count up to the bound: ">=" becomes "<=" over the negated literals
+// (negated_view; the sum of the coefficients is checked first, since a
+// constraint built by hand may not have been normalised). A clause, or a
+// bound below zero after the flip (the empty clause), is emitted here and
+// `encode` is not called.
+template <class Sink, class Encode>
+void encode_as_at_most(Sink& out, const normalized_constraint& c, Encode&& encode) {
+  if (c.kind == constraint_kind::clause) {
+    out.add_clause(std::span<const literal>(c.literals));
+    return;
+  }
+  std::int64_t total = 0;
+  for (const std::int64_t a : c.coefficients) total = checked_add(total, a, c.where(), "the sum of the coefficients");
+  const bool ge = c.rel == relation::ge;
+  const normalized_constraint flipped = ge ? negated_view(c) : normalized_constraint{};
+  const normalized_constraint& le = ge ? flipped : c;
+  if (le.bound < 0) {
+    out.add_clause(std::span<const literal>());
+    return;
+  }
+  encode(le);
+}
+
+}  // namespace detail
+
 }  // namespace clausewright

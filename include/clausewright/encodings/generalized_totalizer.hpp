@@ -192,34 +192,21 @@ template <class Sink>
 void encode_generalized_totalizer(Sink& out, variable_pool& pool, const normalized_constraint& c,
                                   const encode_options& options,
                                   std::uint64_t output_budget = default_generalized_totalizer_output_budget) {
-  if (c.kind == constraint_kind::clause) {
-    out.add_clause(std::span<const literal>(c.literals));
-    return;
-  }
-  // negated_view adds the coefficients: check the sum of a hand-built constraint first.
-  std::int64_t total = 0;
-  for (const std::int64_t a : c.coefficients)
-    total = detail::checked_add(total, a, c.where(), "the sum of the coefficients");
-  const bool ge = c.rel == relation::ge;
-  const normalized_constraint flipped = ge ? negated_view(c) : normalized_constraint{};
-  const normalized_constraint& le = ge ? flipped : c;
-  if (le.bound < 0) {
-    out.add_clause(std::span<const literal>());
-    return;
-  }
-  const std::int64_t cap = detail::checked_add(le.bound, 1, c.where(), "the bound plus one");
-  const sides which = options.full_equivalence || le.rel == relation::eq ? sides::both : sides::upper;
-  const generalized_totalizer_outputs root =
-      build_generalized_totalizer(out, pool, le.literals, le.coefficients, cap, which, c.where(),
-                                  output_budget);
-  if (const auto top = root.outputs.find(cap); top != root.outputs.end()) emit(out, ~top->second);
-  if (le.rel == relation::eq) {
-    const auto reach = root.outputs.lower_bound(le.bound);
-    if (reach == root.outputs.end())
-      out.add_clause(std::span<const literal>());
-    else
-      emit(out, reach->second);
-  }
+  detail::encode_as_at_most(out, c, [&](const normalized_constraint& le) {
+    const std::int64_t cap = detail::checked_add(le.bound, 1, c.where(), "the bound plus one");
+    const sides which = options.full_equivalence || le.rel == relation::eq ? sides::both : sides::upper;
+    const generalized_totalizer_outputs root =
+        build_generalized_totalizer(out, pool, le.literals, le.coefficients, cap, which, c.where(),
+                                    output_budget);
+    if (const auto top = root.outputs.find(cap); top != root.outputs.end()) emit(out, ~top->second);
+    if (le.rel == relation::eq) {
+      const auto reach = root.outputs.lower_bound(le.bound);
+      if (reach == root.outputs.end())
+        out.add_clause(std::span<const literal>());
+      else
+        emit(out, reach->second);
+    }
+  });
 }
 
 }  // namespace clausewright

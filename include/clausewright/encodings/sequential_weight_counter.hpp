@@ -144,60 +144,47 @@ unary_outputs build_sequential_weight_counter(Sink& out, variable_pool& pool, st
 template <class Sink>
 void encode_sequential_weight_counter(Sink& out, variable_pool& pool, const normalized_constraint& c,
                                       const encode_options& options) {
-  if (c.kind == constraint_kind::clause) {
-    out.add_clause(std::span<const literal>(c.literals));
-    return;
-  }
-  // negated_view adds the coefficients: check the sum of a hand-built constraint first.
-  std::int64_t total = 0;
-  for (const std::int64_t a : c.coefficients)
-    total = detail::checked_add(total, a, c.where(), "the sum of the coefficients");
-  const bool ge = c.rel == relation::ge;
-  const normalized_constraint flipped = ge ? negated_view(c) : normalized_constraint{};
-  const normalized_constraint& le = ge ? flipped : c;
-  if (le.bound < 0) {
-    out.add_clause(std::span<const literal>());
-    return;
-  }
-  if (!options.full_equivalence && le.rel == relation::le) {
-    if (le.bound == 0) {
-      for (const literal l : le.literals) emit(out, ~l);
+  detail::encode_as_at_most(out, c, [&](const normalized_constraint& le) {
+    if (!options.full_equivalence && le.rel == relation::le) {
+      if (le.bound == 0) {
+        for (const literal l : le.literals) emit(out, ~l);
+        return;
+      }
+      // Weights above the bound (possible after negated_view) force their input false.
+      bool clipped = false;
+      for (const std::int64_t a : le.coefficients) clipped = clipped || a > le.bound;
+      if (!clipped) {
+        encode_sequential_weight_at_most(out, pool, le.literals, le.coefficients, le.bound, c.where());
+        return;
+      }
+      std::vector<literal> kept;
+      std::vector<std::int64_t> weights;
+      for (std::size_t i = 0; i < le.size(); ++i) {
+        if (le.coefficients[i] > le.bound) {
+          emit(out, ~le.literals[i]);
+        } else {
+          kept.push_back(le.literals[i]);
+          weights.push_back(le.coefficients[i]);
+        }
+      }
+      encode_sequential_weight_at_most(out, pool, kept, weights, le.bound, c.where());
       return;
     }
-    // Weights above the bound (possible after negated_view) force their input false.
-    bool clipped = false;
-    for (const std::int64_t a : le.coefficients) clipped = clipped || a > le.bound;
-    if (!clipped) {
-      encode_sequential_weight_at_most(out, pool, le.literals, le.coefficients, le.bound, c.where());
-      return;
-    }
-    std::vector<literal> kept;
-    std::vector<std::int64_t> weights;
-    for (std::size_t i = 0; i < le.size(); ++i) {
-      if (le.coefficients[i] > le.bound) {
-        emit(out, ~le.literals[i]);
+    const std::int64_t cut = detail::checked_add(le.bound, 1, c.where(), "the bound plus one");
+    const unary_outputs row = build_sequential_weight_counter(out, pool, le.literals, le.coefficients, cut,
+                                                              sides::both, c.where());
+    const auto k = static_cast<std::size_t>(le.bound);
+    if (k < row.size()) emit(out, row.at_most(k));
+    if (le.rel == relation::eq) {
+      if (k == 0) {
+        for (const literal l : le.literals) emit(out, ~l);
+      } else if (k <= row.size()) {
+        emit(out, row.at_least(k));
       } else {
-        kept.push_back(le.literals[i]);
-        weights.push_back(le.coefficients[i]);
+        out.add_clause(std::span<const literal>());
       }
     }
-    encode_sequential_weight_at_most(out, pool, kept, weights, le.bound, c.where());
-    return;
-  }
-  const std::int64_t cut = detail::checked_add(le.bound, 1, c.where(), "the bound plus one");
-  const unary_outputs row = build_sequential_weight_counter(out, pool, le.literals, le.coefficients, cut,
-                                                            sides::both, c.where());
-  const auto k = static_cast<std::size_t>(le.bound);
-  if (k < row.size()) emit(out, row.at_most(k));
-  if (le.rel == relation::eq) {
-    if (k == 0) {
-      for (const literal l : le.literals) emit(out, ~l);
-    } else if (k <= row.size()) {
-      emit(out, row.at_least(k));
-    } else {
-      out.add_clause(std::span<const literal>());
-    }
-  }
+  });
 }
 
 }  // namespace clausewright

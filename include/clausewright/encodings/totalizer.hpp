@@ -203,25 +203,9 @@ unary_outputs build_totalizer(Sink& out, variable_pool& pool, std::span<const li
 
 template <class Sink>
 void encode_totalizer(Sink& out, variable_pool& pool, const normalized_constraint& c, const encode_options& options) {
-  require_unit_coefficients(c, "the totalizer");
-  if (c.kind == constraint_kind::clause) {
-    out.add_clause(std::span<const literal>(c.literals));
-    return;
-  }
-  const std::int64_t k = c.bound;
-  const cardinality_sides need = needed_sides(c);
-  if (need.impossible) {
-    out.add_clause(std::span<const literal>());
-    return;
-  }
-  const bool at_most = need.at_most;
-  const bool at_least = need.at_least;
-  if (!at_most && !at_least) return;
-  const auto cut = static_cast<std::size_t>(at_most ? k + 1 : k);
-  const totalizer tree(out, pool, c.literals, cut, sides_for(c.rel, options));
-  const unary_outputs& r = tree.outputs();
-  if (at_most) emit(out, r.at_most(static_cast<std::size_t>(k)));
-  if (at_least) emit(out, r.at_least(static_cast<std::size_t>(k)));
+  detail::encode_with_counter(out, c, options, "the totalizer", [&](std::size_t cut, sides which) {
+    return build_totalizer(out, pool, c.literals, cut, which);
+  });
 }
 
 }  // namespace clausewright
