@@ -7,6 +7,7 @@
 
 #include <cstddef>
 #include <cstdint>
+#include <memory>
 #include <string>
 #include <string_view>
 
@@ -55,6 +56,53 @@ class memory_source final : public byte_source {
   std::string_view bytes_;
   std::size_t position_ = 0;
   std::string name_;
+};
+
+// The characters of a byte source one at a time, read in blocks, with the
+// line and column (both from 1) of the next one: what the readers' error
+// messages point at.
+class char_cursor {
+ public:
+  static constexpr int end = -1;  // peek() at the end of the input
+
+  explicit char_cursor(byte_source& in, std::size_t block_size = std::size_t{1} << 16)
+      : in_(in), block_size_(block_size), buffer_(new char[block_size]) {}
+
+  // The next character as an unsigned byte, or `end`.
+  int peek() {
+    if (pos_ < size_) return static_cast<unsigned char>(buffer_[pos_]);
+    if (at_end_) return end;
+    size_ = in_.read(buffer_.get(), block_size_);
+    pos_ = 0;
+    if (size_ == 0) {
+      at_end_ = true;
+      return end;
+    }
+    return static_cast<unsigned char>(buffer_[0]);
+  }
+  // Moves past the character peek() returned (not at the end).
+  void advance() {
+    if (buffer_[pos_] == '\n') {
+      ++line_;
+      column_ = 1;
+    } else {
+      ++column_;
+    }
+    ++pos_;
+  }
+  [[nodiscard]] std::uint64_t line() const noexcept { return line_; }
+  [[nodiscard]] std::uint64_t column() const noexcept { return column_; }
+  [[nodiscard]] const std::string& name() const { return in_.name(); }
+
+ private:
+  byte_source& in_;
+  std::size_t block_size_;
+  std::unique_ptr<char[]> buffer_;  // not zeroed: it is filled before it is read
+  std::size_t pos_ = 0;
+  std::size_t size_ = 0;
+  bool at_end_ = false;
+  std::uint64_t line_ = 1;
+  std::uint64_t column_ = 1;
 };
 
 }  // namespace clausewright::tool

@@ -14,7 +14,7 @@ namespace clausewright::tool {
 
 namespace {
 
-constexpr int end_of_file = -1;
+constexpr int end_of_file = char_cursor::end;
 constexpr std::size_t block_size = std::size_t{1} << 18;
 // Header fields further into a comment line than this are not looked for.
 constexpr std::size_t header_scan_limit = 4096;
@@ -45,7 +45,7 @@ enum class pass { header, scan, full };
 class opb_parser {
  public:
   opb_parser(byte_source& in, pass mode, model_handler* handler, std::optional<std::int32_t> declared)
-      : in_(in), mode_(mode), handler_(handler), declared_(declared), buffer_(new char[block_size]) {}
+      : in_(in), text_(in, block_size), mode_(mode), handler_(handler), declared_(declared) {}
 
   void run() {
     for (;;) {
@@ -70,30 +70,12 @@ class opb_parser {
   [[nodiscard]] std::int32_t max_variable_seen() const noexcept { return max_var_; }
   [[nodiscard]] std::uint64_t constraints() const noexcept { return constraints_; }
   [[nodiscard]] bool any_statement() const noexcept { return statements_seen_; }
-  [[nodiscard]] source_position position() const noexcept { return {line_, column_}; }
+  [[nodiscard]] source_position position() const noexcept { return {text_.line(), text_.column()}; }
 
  private:
   // --- characters ------------------------------------------------------------------
-  int peek() {
-    if (pos_ < size_) return static_cast<unsigned char>(buffer_[pos_]);
-    if (at_end_) return end_of_file;
-    size_ = in_.read(buffer_.get(), block_size);
-    pos_ = 0;
-    if (size_ == 0) {
-      at_end_ = true;
-      return end_of_file;
-    }
-    return static_cast<unsigned char>(buffer_[0]);
-  }
-  void advance() {
-    if (buffer_[pos_] == '\n') {
-      ++line_;
-      column_ = 1;
-    } else {
-      ++column_;
-    }
-    ++pos_;
-  }
+  int peek() { return text_.peek(); }
+  void advance() { text_.advance(); }
   void skip_blank() {
     while (is_space(peek())) advance();
   }
@@ -373,15 +355,10 @@ class opb_parser {
   }
 
   byte_source& in_;
+  char_cursor text_;
   pass mode_;
   model_handler* handler_;
   std::optional<std::int32_t> declared_;
-  std::unique_ptr<char[]> buffer_;  // not zeroed: it is filled before it is read
-  std::size_t pos_ = 0;
-  std::size_t size_ = 0;
-  bool at_end_ = false;
-  std::uint64_t line_ = 1;
-  std::uint64_t column_ = 1;
 
   header_info header_;
   bool statements_seen_ = false;

@@ -9,7 +9,7 @@ namespace {
 
 class answer_reader {
  public:
-  answer_reader(byte_source& in, std::int32_t variables) : in_(in), variables_(variables), buffer_(1 << 16) {
+  answer_reader(byte_source& in, std::int32_t variables) : in_(in), text_(in), variables_(variables) {
     answer_.values.assign(static_cast<std::size_t>(variables) + 1, 0);
   }
 
@@ -54,26 +54,8 @@ class answer_reader {
   }
 
  private:
-  int peek() {
-    if (pos_ < size_) return static_cast<unsigned char>(buffer_[pos_]);
-    if (at_end_) return -1;
-    size_ = in_.read(buffer_.data(), buffer_.size());
-    pos_ = 0;
-    if (size_ == 0) {
-      at_end_ = true;
-      return -1;
-    }
-    return static_cast<unsigned char>(buffer_[0]);
-  }
-  void advance() {
-    if (buffer_[pos_] == '\n') {
-      ++line_;
-      column_ = 1;
-    } else {
-      ++column_;
-    }
-    ++pos_;
-  }
+  int peek() { return text_.peek(); }
+  void advance() { text_.advance(); }
   void skip_blank() {
     for (int c = peek(); c == ' ' || c == '\t' || c == '\r'; c = peek()) advance();
   }
@@ -83,8 +65,8 @@ class answer_reader {
   [[nodiscard]] error_position position() const {
     error_position p;
     p.file = in_.name();
-    p.line = line_;
-    p.column = column_;
+    p.line = text_.line();
+    p.column = text_.column();
     return p;
   }
   [[noreturn]] void fail(const std::string& what) const { throw error(error_id::parse, what, position()); }
@@ -185,13 +167,8 @@ class answer_reader {
   }
 
   byte_source& in_;
+  char_cursor text_;
   std::int32_t variables_;
-  std::vector<char> buffer_;
-  std::size_t pos_ = 0;
-  std::size_t size_ = 0;
-  bool at_end_ = false;
-  std::uint64_t line_ = 1;
-  std::uint64_t column_ = 1;
   error_position line_start_;
   solver_answer answer_;
 };
