@@ -83,12 +83,14 @@ class wcnf_writer {
     } else {
       for (const char c : prefix) text_.put_unchecked(c);
     }
+    char* p = text_.cursor();
     for (const literal l : clause) {
-      text_.put_int_unchecked(l.dimacs());
-      text_.put_unchecked(' ');
+      p = write_decimal(p, l.dimacs());
+      *p++ = ' ';
     }
-    text_.put_unchecked('0');
-    text_.put_unchecked('\n');
+    p[0] = '0';
+    p[1] = '\n';
+    text_.finish_unchecked(p + 2);
   }
 
   text_writer text_;

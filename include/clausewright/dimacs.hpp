@@ -66,14 +66,16 @@ class dimacs_writer {
       text_.put("0\n");
     } else {
       std::int32_t top = max_var_;
+      char* p = text_.cursor();
       for (const literal l : clause) {
-        text_.put_int_unchecked(l.dimacs());
-        text_.put_unchecked(' ');
+        p = write_decimal(p, l.dimacs());
+        *p++ = ' ';
         top = l.var() > top ? l.var() : top;
       }
       max_var_ = top;
-      text_.put_unchecked('0');
-      text_.put_unchecked('\n');
+      p[0] = '0';
+      p[1] = '\n';
+      text_.finish_unchecked(p + 2);
     }
     ++clauses_;
   }

@@ -7,16 +7,22 @@
 #include <fcntl.h>
 #include <unistd.h>
 
+#include <algorithm>
 #include <cerrno>
 #include <charconv>
+#include <condition_variable>
 #include <cstdint>
 #include <cstdio>
 #include <cstring>
+#include <exception>
 #include <filesystem>
+#include <memory>
+#include <mutex>
 #include <ostream>
 #include <random>
 #include <string>
 #include <string_view>
+#include <thread>
 #include <vector>
 
 #include "config.hpp"
@@ -147,10 +153,160 @@ class atomic_file_output final : public fd_output {
   bool committed_ = false;
 };
 
+// Hands the bytes to a thread of its own that writes them to `out`, so that
+// formatting and the write system calls (the kernel's copy into the page
+// cache) run side by side on two cores. The bytes go in blocks of
+// `block_size`, at most `blocks` of them in flight: memory stays
+// blocks * block_size. finish() waits until everything is written and
+// rethrows the first error of the writing thread (later writes rethrow it
+// too); patch() finishes first. Destroyed without finish(), it drops what is
+// still pending: a failure path, where the caller discards the output.
+class threaded_output final : public byte_output {
+ public:
+  explicit threaded_output(byte_output& out, std::size_t block_size = std::size_t{1} << 20, std::size_t blocks = 4)
+      : out_(out),
+        block_size_(std::max<std::size_t>(block_size, 1)),
+        count_(std::max<std::size_t>(blocks, 2)),
+        storage_(new char[block_size_ * count_]),
+        sizes_(count_, 0),
+        thread_([this] { run(); }) {}
+  threaded_output(const threaded_output&) = delete;
+  threaded_output& operator=(const threaded_output&) = delete;
+  ~threaded_output() override {
+    {
+      const std::lock_guard lock(mutex_);
+      stopping_ = true;
+    }
+    changed_.notify_all();
+    thread_.join();
+  }
+
+  void write(const char* data, std::size_t size) override {
+    while (size > 0) {
+      if (!holding_) acquire();
+      const std::size_t n = std::min(size, block_size_ - fill_);
+      std::memcpy(block(submitted_ % count_) + fill_, data, n);
+      fill_ += n;
+      data += n;
+      size -= n;
+      if (fill_ == block_size_) submit();
+    }
+  }
+  [[nodiscard]] bool can_patch() const override { return out_.can_patch(); }
+  void patch(std::uint64_t offset, const char* data, std::size_t size) override {
+    finish();
+    out_.patch(offset, data, size);
+  }
+  // Everything handed over so far is written when this returns.
+  void finish() {
+    if (holding_ && fill_ != 0) submit();
+    std::unique_lock lock(mutex_);
+    changed_.wait(lock, [this] { return written_ == submitted_; });
+    if (failure_) std::rethrow_exception(failure_);
+  }
+
+ private:
+  char* block(std::size_t index) noexcept { return storage_.get() + index * block_size_; }
+
+  // Waits until the next block in the ring is free.
+  void acquire() {
+    std::unique_lock lock(mutex_);
+    changed_.wait(lock, [this] { return submitted_ - written_ < count_ || failure_; });
+    if (failure_) std::rethrow_exception(failure_);
+    holding_ = true;
+    fill_ = 0;
+  }
+  void submit() {
+    {
+      const std::lock_guard lock(mutex_);
+      sizes_[submitted_ % count_] = fill_;
+      ++submitted_;
+    }
+    holding_ = false;
+    fill_ = 0;
+    changed_.notify_all();
+  }
+  void run() {
+    std::unique_lock lock(mutex_);
+    for (;;) {
+      changed_.wait(lock, [this] { return stopping_ || written_ < submitted_; });
+      if (stopping_) return;
+      const std::size_t index = written_ % count_;
+      const std::size_t size = sizes_[index];
+      const bool skip = failure_ != nullptr;
+      lock.unlock();
+      std::exception_ptr failed;
+      if (!skip) {
+        try {
+          out_.write(block(index), size);
+        } catch (...) {
+          failed = std::current_exception();
+        }
+      }
+      lock.lock();
+      if (failed && !failure_) failure_ = failed;
+      ++written_;
+      changed_.notify_all();
+    }
+  }
+
+  byte_output& out_;
+  std::size_t block_size_;
+  std::size_t count_;
+  std::unique_ptr<char[]> storage_;  // count_ blocks, used in turn
+  std::vector<std::size_t> sizes_;   // bytes in each submitted block
+  // Blocks handed over and blocks written; the producer fills block
+  // submitted_ % count_ while it holds it.
+  std::size_t submitted_ = 0;
+  std::size_t written_ = 0;
+  bool holding_ = false;
+  std::size_t fill_ = 0;
+  bool stopping_ = false;
+  std::exception_ptr failure_;
+  std::mutex mutex_;
+  std::condition_variable changed_;
+  std::thread thread_;  // last: it starts once the rest is built
+};
+
 inline constexpr char digit_pairs[] =
     "00010203040506070809101112131415161718192021222324252627282930313233343536373839"
     "40414243444546474849505152535455565758596061626364656667686970717273747576777879"
     "8081828384858687888990919293949596979899";
+
+// Decimal digits of u (1 for 0).
+[[nodiscard]] constexpr unsigned decimal_digits(std::uint32_t u) noexcept {
+  unsigned n = 1;
+  for (;;) {
+    if (u < 10) return n;
+    if (u < 100) return n + 1;
+    if (u < 1000) return n + 2;
+    if (u < 10000) return n + 3;
+    u /= 10000;
+    n += 4;
+  }
+}
+
+// Writes `value` in decimal at p (at most 11 bytes) and returns the end:
+// digit pairs from a table, written back to front into their final place.
+inline char* write_decimal(char* p, std::int32_t value) noexcept {
+  auto u = static_cast<std::uint32_t>(value);
+  if (value < 0) {
+    *p++ = '-';
+    u = 0U - u;
+  }
+  char* const end = p + decimal_digits(u);
+  char* q = end;
+  while (u >= 100) {
+    q -= 2;
+    std::memcpy(q, digit_pairs + static_cast<std::size_t>(u % 100) * 2, 2);
+    u /= 100;
+  }
+  if (u >= 10)
+    std::memcpy(q - 2, digit_pairs + static_cast<std::size_t>(u) * 2, 2);
+  else
+    q[-1] = static_cast<char>('0' + u);
+  return end;
+}
 
 // Buffered text writer: collects bytes and flushes in blocks of `capacity`.
 class text_writer {
@@ -191,32 +347,12 @@ class text_writer {
   }
   // Unchecked writes after reserve().
   void put_unchecked(char c) noexcept { buffer_[used_++] = c; }
-  // Digit pairs from a table, written back to front (as fmt's format_decimal).
-  void put_int_unchecked(std::int32_t value) noexcept {
-    char* p = buffer_.data() + used_;
-    std::uint32_t u = static_cast<std::uint32_t>(value);
-    if (value < 0) {
-      *p++ = '-';
-      u = 0U - u;
-    }
-    char digits[10];
-    char* end = digits + sizeof digits;
-    char* q = end;
-    while (u >= 100) {
-      q -= 2;
-      std::memcpy(q, digit_pairs + static_cast<std::size_t>(u % 100) * 2, 2);
-      u /= 100;
-    }
-    if (u >= 10) {
-      q -= 2;
-      std::memcpy(q, digit_pairs + static_cast<std::size_t>(u) * 2, 2);
-    } else {
-      *--q = static_cast<char>('0' + u);
-    }
-    const auto length = static_cast<std::size_t>(end - q);
-    std::memcpy(p, q, length);
-    used_ = static_cast<std::size_t>(p + length - buffer_.data());
-  }
+  void put_int_unchecked(std::int32_t value) noexcept { finish_unchecked(write_decimal(cursor(), value)); }
+  // Raw writing after reserve(): the next free byte, and where the caller's
+  // unchecked writes ended. A hot loop keeps the pointer in a register
+  // instead of updating the writer (char stores alias every member).
+  [[nodiscard]] char* cursor() noexcept { return buffer_.data() + used_; }
+  void finish_unchecked(const char* end) noexcept { used_ = static_cast<std::size_t>(end - buffer_.data()); }
   [[nodiscard]] std::size_t room() const noexcept { return buffer_.size() - used_; }
 
   void flush() {
