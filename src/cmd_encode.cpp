@@ -5,6 +5,8 @@
 // is written beside its target and renamed into place only when complete.
 // Standard output gets the exact header from a dry run first (the input is
 // read twice), which also means nothing is written for a malformed model.
+// The bytes go through threaded_output: the write system calls run on a
+// second thread while the next block is formatted.
 #include <unistd.h>
 
 #include <cstdio>
@@ -185,12 +187,16 @@ int run_encode(const encode_request& r) {
   if (!wcnf) {
     if (to_stdout) {
       const auto exact = dry_run_cnf(in, settings);
-      fd_output out(STDOUT_FILENO, "standard output");
+      fd_output file(STDOUT_FILENO, "standard output");
+      threaded_output out(file);
       s = write_cnf(in, out, settings, exact, r, progress);
+      out.finish();
     } else {
-      atomic_file_output out(r.output);
+      atomic_file_output file(r.output);
+      threaded_output out(file);
       s = write_cnf(in, out, settings, std::nullopt, r, progress);
-      out.commit();
+      out.finish();
+      file.commit();
     }
     if (s.skipped_soft != 0)
       std::fprintf(stderr,
@@ -200,12 +206,16 @@ int run_encode(const encode_request& r) {
     std::optional<model_encoding_summary> exact;
     if (to_stdout || r.older_wcnf) exact = dry_run_wcnf(in, settings);
     if (to_stdout) {
-      fd_output out(STDOUT_FILENO, "standard output");
+      fd_output file(STDOUT_FILENO, "standard output");
+      threaded_output out(file);
       s = write_wcnf(in, out, settings, exact, r, progress);
+      out.finish();
     } else {
-      atomic_file_output out(r.output);
+      atomic_file_output file(r.output);
+      threaded_output out(file);
       s = write_wcnf(in, out, settings, exact, r, progress);
-      out.commit();
+      out.finish();
+      file.commit();
     }
   }
   return exit_success;

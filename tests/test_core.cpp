@@ -6,6 +6,7 @@
 #include <cstdio>
 #include <filesystem>
 #include <fstream>
+#include <random>
 #include <gtest/gtest.h>
 #include <sstream>
 
@@ -259,4 +260,92 @@ TEST(Encoder, BadInputNamesTheConstraint) {
   EXPECT_THROW(enc.at_most_one({lit(1), lit(8)}), cw::error);         // not in the pool
   EXPECT_THROW(enc.linear({{INT64_MAX, lit(1)}, {INT64_MAX, lit(2)}}, cw::relation::le, 5), cw::error);
   EXPECT_THROW(enc.linear({{3, lit(1)}, {2, lit(2)}}, cw::relation::le, 3, cw::method_id::pairwise), cw::error);
+}
+
+// threaded_output hands blocks to a second thread: the bytes must arrive
+// whole and in order whatever the sizes of the writes, errors of the writing
+// thread must reach the caller, and dropping it without finish() must not
+// hang.
+namespace {
+class recording_output final : public cw::byte_output {
+ public:
+  void write(const char* data, std::size_t size) override {
+    if (fail_after_ != 0 && bytes.size() + size > fail_after_) throw cw::error(cw::error_id::io, "disk full");
+    bytes.append(data, size);
+  }
+  [[nodiscard]] bool can_patch() const override { return true; }
+  void patch(std::uint64_t offset, const char* data, std::size_t size) override {
+    ASSERT_LE(offset + size, bytes.size());
+    bytes.replace(offset, size, data, size);
+  }
+  std::string bytes;
+  std::size_t fail_after_ = 0;
+};
+}  // namespace
+
+TEST(ThreadedOutput, BytesArriveWholeAndInOrder) {
+  const unsigned seed = 20261202;
+  std::mt19937 rng(seed);
+  std::string expected;
+  recording_output sink;
+  {
+    cw::threaded_output out(sink, 1000, 3);  // small blocks: many hand-overs
+    std::string chunk;
+    for (int i = 0; i < 5000; ++i) {
+      chunk.assign(rng() % 2500, '\0');
+      for (auto& c : chunk) c = static_cast<char>('a' + rng() % 26);
+      out.write(chunk.data(), chunk.size());
+      expected += chunk;
+      if (i % 1000 == 999) out.finish();  // finishing in between changes nothing
+    }
+    out.finish();
+  }
+  ASSERT_EQ(sink.bytes.size(), expected.size()) << "seed " << seed;
+  EXPECT_TRUE(sink.bytes == expected) << "seed " << seed;
+}
+
+TEST(ThreadedOutput, DimacsWithPatchedHeaderIsReadByCaDiCaL) {
+  const std::string path = temp_path("cw-threaded.cnf");
+  const int n = 100000;
+  {
+    cw::atomic_file_output file(path);
+    cw::threaded_output out(file, 4096, 4);
+    cw::dimacs_writer w(out);
+    w.begin_patched();
+    for (int i = 1; i < n; ++i) cw::emit(w, lit(-i), lit(i + 1));
+    cw::emit(w, lit(1));
+    w.finish(n);
+    out.finish();
+    file.commit();
+  }
+  int vars = 0;
+  EXPECT_EQ(solve_file(path, vars), 10);
+  EXPECT_EQ(vars, n);
+  std::filesystem::remove(path);
+}
+
+TEST(ThreadedOutput, WriteErrorsReachTheCaller) {
+  recording_output sink;
+  sink.fail_after_ = 50'000;
+  cw::threaded_output out(sink, 1024, 2);
+  const std::string line(100, 'x');
+  try {
+    for (int i = 0; i < 10'000; ++i) out.write(line.data(), line.size());
+    out.finish();
+    FAIL() << "the error of the writing thread was lost";
+  } catch (const cw::error& e) {
+    EXPECT_EQ(e.id(), cw::error_id::io);
+    EXPECT_NE(std::string(e.what()).find("disk full"), std::string::npos);
+  }
+  EXPECT_LE(sink.bytes.size(), 50'000U);
+}
+
+TEST(ThreadedOutput, DroppedWithoutFinishDoesNotHang) {
+  recording_output sink;
+  {
+    cw::threaded_output out(sink, 64, 2);
+    const std::string text(10'000, 'y');
+    out.write(text.data(), text.size());
+  }
+  EXPECT_LE(sink.bytes.size(), 10'000U);
 }
