@@ -10,6 +10,7 @@
 #include <string>
 
 #include "json_model.hpp"
+#include "read_errors.hpp"
 
 namespace cw = clausewright;
 namespace cwt = clausewright::tool;
@@ -17,33 +18,10 @@ using cw::lit;
 
 namespace {
 
-struct failure {
-  std::string message;
-  std::uint64_t line = 0;
-  std::uint64_t column = 0;
-};
-
-failure read_error(const std::string& text) {
-  try {
-    (void)cwt::parse_json_model(text, "bad.json");
-  } catch (const cw::error& e) {
-    EXPECT_EQ(e.where().file, "bad.json") << e.what();
-    return {e.what(), e.where().line, e.where().column};
-  } catch (const std::exception& e) {
-    ADD_FAILURE() << "not a clausewright::error: " << e.what();
-    return {};
-  }
-  ADD_FAILURE() << "no error for:\n" << text.substr(0, 200);
-  return {};
+cw_test::failure read_error(const std::string& text) {
+  return cw_test::capture_read_error([](const std::string& t) { (void)cwt::parse_json_model(t, "bad.json"); }, text,
+                                     "bad.json");
 }
-
-#define EXPECT_ERROR_AT(text, line_, column_, part)                          \
-  do {                                                                       \
-    const failure f_ = read_error(text);                                     \
-    EXPECT_EQ(f_.line, static_cast<std::uint64_t>(line_)) << f_.message;     \
-    EXPECT_EQ(f_.column, static_cast<std::uint64_t>(column_)) << f_.message; \
-    EXPECT_NE(f_.message.find(part), std::string::npos) << f_.message;       \
-  } while (false)
 
 }  // namespace
 
@@ -156,8 +134,8 @@ TEST(JsonErrors, CoefficientsBeyond64Bits) {
 }
 
 TEST(JsonErrors, UndeclaredAndMalformedNames) {
-  EXPECT_ERROR_AT("{\"variables\": [\"a\"],\n \"constraints\": [{\"type\": \"clause\", \"literals\": [\"a\", \"b\"]}]}", 2,
-                  55, "\"b\" is not declared");
+  EXPECT_ERROR_AT("{\"variables\": [\"a\"],\n \"constraints\": [{\"type\": \"clause\", \"literals\": [\"a\", \"b\"]}]}",
+                  2, 55, "\"b\" is not declared");
   EXPECT_ERROR_AT("{\"constraints\": [{\"type\": \"clause\", \"literals\": [\"1a\"]}]}", 1, 50, "malformed literal");
   EXPECT_ERROR_AT("{\"constraints\": [{\"type\": \"clause\", \"literals\": [\"a b\"]}]}", 1, 50, "malformed literal");
   EXPECT_ERROR_AT("{\"constraints\": [{\"type\": \"clause\", \"literals\": [\"~\"]}]}", 1, 50, "malformed literal");

@@ -13,6 +13,7 @@
 #include "input.hpp"
 #include "model_file.hpp"
 #include "opb.hpp"
+#include "read_errors.hpp"
 
 namespace cw = clausewright;
 namespace cwt = clausewright::tool;
@@ -28,34 +29,9 @@ cw::model read(const std::string& text, const std::string& name = "sample.opb") 
   return m;
 }
 
-struct failure {
-  std::string message;
-  std::uint64_t line = 0;
-  std::uint64_t column = 0;
-};
-
-failure read_error(const std::string& text) {
-  try {
-    (void)read(text, "bad.opb");
-  } catch (const cw::error& e) {
-    EXPECT_EQ(e.id(), cw::error_id::parse) << e.what();
-    EXPECT_EQ(e.where().file, "bad.opb");
-    return {e.what(), e.where().line, e.where().column};
-  } catch (const std::exception& e) {
-    ADD_FAILURE() << "not a clausewright::error: " << e.what();
-    return {};
-  }
-  ADD_FAILURE() << "no error for:\n" << text.substr(0, 200);
-  return {};
+cw_test::failure read_error(const std::string& text) {
+  return cw_test::capture_read_error([](const std::string& t) { (void)read(t, "bad.opb"); }, text, "bad.opb");
 }
-
-#define EXPECT_ERROR_AT(text, line_, column_, part)                      \
-  do {                                                                   \
-    const failure f_ = read_error(text);                                 \
-    EXPECT_EQ(f_.line, static_cast<std::uint64_t>(line_)) << f_.message;   \
-    EXPECT_EQ(f_.column, static_cast<std::uint64_t>(column_)) << f_.message; \
-    EXPECT_NE(f_.message.find(part), std::string::npos) << f_.message;    \
-  } while (false)
 
 // Ten million copies of one character: a 10 MB line.
 std::string repeated(char c) {
@@ -234,8 +210,7 @@ TEST(OpbErrors, CoefficientsBeyond64Bits) {
   EXPECT_ERROR_AT("* #variable= 2 #constraint= 1\n-9223372036854775809 x2 >= 1 ;\n", 2, 1, "64 bits");
   EXPECT_ERROR_AT("* #variable= 2 #constraint= 1\n+1 x1 >= 99999999999999999999999 ;\n", 2, 10, "64 bits");
   // A coefficient of ten million digits stops at the first digit too many.
-  EXPECT_ERROR_AT("* #variable= 2 #constraint= 1\n+" + repeated('7') + " x1 >= 1 ;\n", 2, 1,
-                  "does not fit in 64 bits");
+  EXPECT_ERROR_AT("* #variable= 2 #constraint= 1\n+" + repeated('7') + " x1 >= 1 ;\n", 2, 1, "does not fit in 64 bits");
 }
 
 TEST(OpbErrors, UndeclaredAndMalformedVariables) {
