@@ -10,8 +10,8 @@
 // - Propagation per relation, measured by the harness (brute force and our
 //   own unit propagation).
 // - Errors: overflow names the constraint, budgets throw over_budget.
-#include <clausewright/clausewright.hpp>
 #include <gtest/gtest.h>
+#include <clausewright/clausewright.hpp>
 
 #include <cstdint>
 #include <random>
@@ -38,8 +38,8 @@ std::string name_of(cw::method_id m) { return std::string(cw::info(m).name); }
 // Seeded random constraints through the exhaustive check: n = 1..max_n
 // inputs, coefficients up to `max_coefficient`, with negative coefficients,
 // repeated variables and complementary literals on alternate seeds.
-std::uint64_t check_random(cw::method_id method, std::uint32_t seeds, std::int32_t max_n,
-                           std::int64_t max_coefficient, std::uint32_t first_seed = 1) {
+std::uint64_t check_random(cw::method_id method, std::uint32_t seeds, std::int32_t max_n, std::int64_t max_coefficient,
+                           std::uint32_t first_seed = 1) {
   std::uint64_t checked = 0;
   for (std::uint32_t seed = first_seed; seed < first_seed + seeds; ++seed) {
     std::mt19937_64 rng(seed);
@@ -48,7 +48,8 @@ std::uint64_t check_random(cw::method_id method, std::uint32_t seeds, std::int32
     const bool repeats = (seed & 2U) != 0;
     const cw_test::raw_constraint c = cw_test::random_linear(rng, n, max_coefficient, negative, repeats);
     for (const bool full : {false, true}) {
-      const std::string context = "seed=" + std::to_string(seed) + " max_coefficient=" + std::to_string(max_coefficient);
+      const std::string context =
+          "seed=" + std::to_string(seed) + " max_coefficient=" + std::to_string(max_coefficient);
       EXPECT_TRUE(cw_test::equivalent(c, method, cw::encode_options{full}, context));
       ++checked;
     }
@@ -94,8 +95,11 @@ std::vector<cw_test::raw_constraint> corner_cases(bool huge_bounds) {
   cases.push_back(make({{7, lit(1)}, {2, lit(2)}, {2, lit(3)}, {1, lit(4)}}, relation::ge, 3));
   if (huge_bounds) {
     // coefficients near 2^62 (their sum stays below 2^63)
-    const std::vector<cw::term> big{{two_to(62) - 1, lit(1)}, {two_to(60), lit(2)}, {two_to(60) + 7, lit(3)},
-                                    {3, lit(4)}, {two_to(59) + 1, lit(5)}};
+    const std::vector<cw::term> big{{two_to(62) - 1, lit(1)},
+                                    {two_to(60), lit(2)},
+                                    {two_to(60) + 7, lit(3)},
+                                    {3, lit(4)},
+                                    {two_to(59) + 1, lit(5)}};
     all_relations(big, two_to(62));
     all_relations(big, two_to(61) + two_to(60) + 5);
     all_relations({{-(two_to(62) - 1), lit(1)}, {two_to(61) - 3, lit(-2)}, {5, lit(3)}, {two_to(60), lit(4)}},
@@ -122,6 +126,31 @@ std::vector<cw::literal> first_literals(std::int32_t n) {
   std::vector<cw::literal> xs;
   for (std::int32_t v = 1; v <= n; ++v) xs.push_back(lit(v));
   return xs;
+}
+
+// Every assignment of the inputs x1..xn (n = a.size()), assumed in one CaDiCaL
+// over `cnf`: check(r) sees the answer and the weighted sum of the inputs.
+struct input_outcome {
+  CaDiCaL::Solver& solver;
+  int status;          // 10 satisfiable, 20 unsatisfiable
+  std::int64_t total;  // sum of a_i over the true inputs
+  std::uint32_t bits;  // the assignment: bit i is x(i+1)
+};
+template <class Check>
+void for_every_input(const cw::cnf_buffer& cnf, const std::vector<std::int64_t>& a, Check check) {
+  CaDiCaL::Solver solver;
+  cw_test::add_to_solver(solver, cnf);
+  const auto n = static_cast<int>(a.size());
+  for (std::uint32_t bits = 0; bits < (1U << n); ++bits) {
+    std::int64_t total = 0;
+    for (int i = 0; i < n; ++i) {
+      const bool v = ((bits >> i) & 1U) != 0;
+      solver.assume(v ? i + 1 : -(i + 1));
+      if (v) total += a[static_cast<std::size_t>(i)];
+    }
+    const int status = solver.solve();
+    check(input_outcome{solver, status, total, bits});
+  }
 }
 
 }  // namespace
@@ -176,8 +205,8 @@ TEST(WeightedPropagation, BddTotalizerAndCounterAreArcConsistentOnInequalities) 
   // Abío et al. 2012 (BDD), Joshi et al. 2015 (generalized totalizer),
   // Hölldobler et al. 2012 (sequential weight counter) state arc-consistency
   // for <=; >= is <= over the negations. Measured here, both option values.
-  for (const auto m : {cw::method_id::bdd, cw::method_id::generalized_totalizer,
-                       cw::method_id::sequential_weight_counter})
+  for (const auto m :
+       {cw::method_id::bdd, cw::method_id::generalized_totalizer, cw::method_id::sequential_weight_counter})
     for (std::uint32_t seed = 1; seed <= 40; ++seed)
       for (const auto rel : {relation::le, relation::ge})
         for (const bool full : {false, true}) {
@@ -193,8 +222,8 @@ TEST(WeightedPropagation, BddTotalizerAndCounterAreArcConsistentOnInequalities) 
 
 TEST(WeightedPropagation, CardinalityEqualityIsArcConsistent) {
   // On unit coefficients = stays arc-consistent for the three (measured).
-  for (const auto m : {cw::method_id::bdd, cw::method_id::generalized_totalizer,
-                       cw::method_id::sequential_weight_counter})
+  for (const auto m :
+       {cw::method_id::bdd, cw::method_id::generalized_totalizer, cw::method_id::sequential_weight_counter})
     for (std::int32_t n = 3; n <= 7; ++n)
       for (std::int64_t k = 1; k < n; ++k) {
         const auto c = cw_test::cardinality(n, relation::eq, k, n % 2 == 0);
@@ -216,8 +245,8 @@ TEST(WeightedPropagation, WeightedEqualityIsNotArcConsistent) {
       EXPECT_TRUE(value(3));
     }
   }
-  for (const auto m : {cw::method_id::bdd, cw::method_id::generalized_totalizer,
-                       cw::method_id::sequential_weight_counter}) {
+  for (const auto m :
+       {cw::method_id::bdd, cw::method_id::generalized_totalizer, cw::method_id::sequential_weight_counter}) {
     const auto r = cw_test::measure_propagation(c, m);
     EXPECT_FALSE(r.arc_consistent) << name_of(m);
     EXPECT_NE(r.counterexample.find("implies x3"), std::string::npos) << name_of(m) << ": " << r.counterexample;
@@ -256,9 +285,15 @@ TEST(Adder, FullAdderIsTheTextbookFourteen) {
       const bool majority = count >= 2;
       bool expect = false;
       switch (which) {
-        case cw::sides::both: expect = (s ? xor3 : !xor3) && (carry ? majority : !majority); break;
-        case cw::sides::upper: expect = (s || !xor3) && (carry || !majority); break;
-        case cw::sides::lower: expect = (!s || xor3) && (!carry || majority); break;
+        case cw::sides::both:
+          expect = (s ? xor3 : !xor3) && (carry ? majority : !majority);
+          break;
+        case cw::sides::upper:
+          expect = (s || !xor3) && (carry || !majority);
+          break;
+        case cw::sides::lower:
+          expect = (!s || xor3) && (!carry || majority);
+          break;
       }
       EXPECT_EQ(satisfies(cnf, value), expect) << "bits " << bits;
     }
@@ -283,9 +318,15 @@ TEST(Adder, HalfAdderIsTheTextbookSeven) {
       const bool both = value[1] && value[2];
       bool expect = false;
       switch (which) {
-        case cw::sides::both: expect = (s ? xor2 : !xor2) && (carry ? both : !both); break;
-        case cw::sides::upper: expect = (s || !xor2) && (carry || !both); break;
-        case cw::sides::lower: expect = (!s || xor2) && (!carry || both); break;
+        case cw::sides::both:
+          expect = (s ? xor2 : !xor2) && (carry ? both : !both);
+          break;
+        case cw::sides::upper:
+          expect = (s || !xor2) && (carry || !both);
+          break;
+        case cw::sides::lower:
+          expect = (!s || xor2) && (!carry || both);
+          break;
       }
       EXPECT_EQ(satisfies(cnf, value), expect) << "bits " << bits;
     }
@@ -297,15 +338,15 @@ TEST(Adder, SmallNetworksCountedByHand) {
   // (sum, carry); K = 01 has one zero bit below the top, bit 1: clause ~carry.
   // 8 clauses, 2 variables.
   {
-    const auto m = cw::measure(cw::method_id::adder, cw::variable_pool(3),
-                               cw_test::cardinality(3, relation::le, 1).normalized());
+    const auto m =
+        cw::measure(cw::method_id::adder, cw::variable_pool(3), cw_test::cardinality(3, relation::le, 1).normalized());
     EXPECT_EQ(m.size.clauses, 8U);
     EXPECT_EQ(m.size.variables, 2U);
   }
   // The same with =: both halves (8 + 6) and the two units sum, ~carry.
   {
-    const auto m = cw::measure(cw::method_id::adder, cw::variable_pool(3),
-                               cw_test::cardinality(3, relation::eq, 1).normalized());
+    const auto m =
+        cw::measure(cw::method_id::adder, cw::variable_pool(3), cw_test::cardinality(3, relation::eq, 1).normalized());
     EXPECT_EQ(m.size.clauses, 16U);
   }
   // 5 x1 + 3 x2 <= 6: bit 0 holds x1, x2; bit 1 x2; bit 2 x1. Half adders:
@@ -332,24 +373,15 @@ TEST(Adder, SumBitsCompareAgainLater) {
   cw::compare_binary_sum(cnf, sum, relation::le, 9);
   cw::compare_binary_sum(cnf, sum, relation::le, 6);
   cw::compare_binary_sum(cnf, sum, relation::ge, 4);
-  CaDiCaL::Solver solver;
-  cw_test::add_to_solver(solver, cnf);
-  for (std::uint32_t bits = 0; bits < 32; ++bits) {
-    std::int64_t total = 0;
-    for (int i = 0; i < 5; ++i) {
-      const bool v = ((bits >> i) & 1U) != 0;
-      solver.assume(v ? i + 1 : -(i + 1));
-      if (v) total += a[static_cast<std::size_t>(i)];
-    }
-    const int status = solver.solve();
-    EXPECT_EQ(status == 10, total >= 4 && total <= 6) << "bits " << bits;
-    if (status == 10) {
+  for_every_input(cnf, a, [&](const input_outcome& r) {
+    EXPECT_EQ(r.status == 10, r.total >= 4 && r.total <= 6) << "bits " << r.bits;
+    if (r.status == 10) {
       std::int64_t value = 0;
       for (std::size_t b = 0; b < sum.size(); ++b)
-        if (sum.bits[b].valid() && solver.val(sum.bits[b].dimacs()) > 0) value += std::int64_t{1} << b;
-      EXPECT_EQ(value, total) << "the bits are the binary sum";
+        if (sum.bits[b].valid() && r.solver.val(sum.bits[b].dimacs()) > 0) value += std::int64_t{1} << b;
+      EXPECT_EQ(value, r.total) << "the bits are the binary sum";
     }
-  }
+  });
 }
 
 // ---------------------------------------------------------------- BDD sizes
@@ -446,17 +478,8 @@ TEST(Bdd, TighteningTheBoundSharesNodes) {
   (void)alone.root(7);
   EXPECT_LT(added, alone.nodes().size()) << "the tighter diagram reuses nodes";
 
-  CaDiCaL::Solver solver;
-  cw_test::add_to_solver(solver, cnf);
-  for (std::uint32_t bits = 0; bits < 256; ++bits) {
-    std::int64_t total = 0;
-    for (int i = 0; i < 8; ++i) {
-      const bool v = ((bits >> i) & 1U) != 0;
-      solver.assume(v ? i + 1 : -(i + 1));
-      if (v) total += a[static_cast<std::size_t>(i)];
-    }
-    EXPECT_EQ(solver.solve() == 10, total <= 7) << "bits " << bits;
-  }
+  for_every_input(cnf, a,
+                  [&](const input_outcome& r) { EXPECT_EQ(r.status == 10, r.total <= 7) << "bits " << r.bits; });
 }
 
 TEST(Bdd, FullEquivalenceRootsAreReified) {
@@ -474,18 +497,10 @@ TEST(Bdd, FullEquivalenceRootsAreReified) {
     ASSERT_TRUE(r.is_node()) << k;
     roots.emplace_back(k, diagram.literal_of(r));
   }
-  CaDiCaL::Solver solver;
-  cw_test::add_to_solver(solver, cnf);
-  for (std::uint32_t bits = 0; bits < 64; ++bits) {
-    std::int64_t total = 0;
-    for (int i = 0; i < 6; ++i) {
-      const bool v = ((bits >> i) & 1U) != 0;
-      solver.assume(v ? i + 1 : -(i + 1));
-      if (v) total += a[static_cast<std::size_t>(i)];
-    }
-    ASSERT_EQ(solver.solve(), 10);
-    for (const auto& [k, l] : roots) EXPECT_EQ(solver.val(l.dimacs()) > 0, total <= k) << "bits " << bits;
-  }
+  for_every_input(cnf, a, [&](const input_outcome& r) {
+    ASSERT_EQ(r.status, 10);
+    for (const auto& [k, l] : roots) EXPECT_EQ(r.solver.val(l.dimacs()) > 0, r.total <= k) << "bits " << r.bits;
+  });
 }
 
 TEST(Bdd, NodeBudgetThrowsOverBudget) {
@@ -581,18 +596,10 @@ TEST(GeneralizedTotalizer, OutputsAreTheReachableSums) {
   std::set<std::int64_t> keys;
   for (const auto& [w, l] : root.outputs) keys.insert(w);
   EXPECT_EQ(keys, reachable);
-  CaDiCaL::Solver solver;
-  cw_test::add_to_solver(solver, cnf);
-  for (std::uint32_t bits = 0; bits < 64; ++bits) {
-    std::int64_t total = 0;
-    for (int i = 0; i < 6; ++i) {
-      const bool v = ((bits >> i) & 1U) != 0;
-      solver.assume(v ? i + 1 : -(i + 1));
-      if (v) total += a[static_cast<std::size_t>(i)];
-    }
-    ASSERT_EQ(solver.solve(), 10);
-    for (const auto& [w, l] : root.outputs) EXPECT_EQ(solver.val(l.dimacs()) > 0, total >= w) << "bits " << bits;
-  }
+  for_every_input(cnf, a, [&](const input_outcome& r) {
+    ASSERT_EQ(r.status, 10);
+    for (const auto& [w, l] : root.outputs) EXPECT_EQ(r.solver.val(l.dimacs()) > 0, r.total >= w) << "bits " << r.bits;
+  });
 }
 
 TEST(GeneralizedTotalizer, TighteningWithTheOutputs) {
@@ -605,17 +612,8 @@ TEST(GeneralizedTotalizer, TighteningWithTheOutputs) {
   const auto root = cw::build_generalized_totalizer(cnf, pool, xs, a, 16, cw::sides::upper);
   for (const auto& [w, l] : root.outputs)
     if (w > 9) cnf.add_clause({~l});
-  CaDiCaL::Solver solver;
-  cw_test::add_to_solver(solver, cnf);
-  for (std::uint32_t bits = 0; bits < 64; ++bits) {
-    std::int64_t total = 0;
-    for (int i = 0; i < 6; ++i) {
-      const bool v = ((bits >> i) & 1U) != 0;
-      solver.assume(v ? i + 1 : -(i + 1));
-      if (v) total += a[static_cast<std::size_t>(i)];
-    }
-    EXPECT_EQ(solver.solve() == 10, total <= 9) << "bits " << bits;
-  }
+  for_every_input(cnf, a,
+                  [&](const input_outcome& r) { EXPECT_EQ(r.status == 10, r.total <= 9) << "bits " << r.bits; });
 }
 
 TEST(GeneralizedTotalizer, OutputBudgetThrowsOverBudget) {
@@ -679,19 +677,11 @@ TEST(SequentialWeightCounter, FullRowCountsWeight) {
   cw::cnf_buffer cnf;
   const auto row = cw::build_sequential_weight_counter(cnf, pool, xs, a, 9, cw::sides::both);
   ASSERT_EQ(row.size(), 9U);
-  CaDiCaL::Solver solver;
-  cw_test::add_to_solver(solver, cnf);
-  for (std::uint32_t bits = 0; bits < 32; ++bits) {
-    std::int64_t total = 0;
-    for (int i = 0; i < 5; ++i) {
-      const bool v = ((bits >> i) & 1U) != 0;
-      solver.assume(v ? i + 1 : -(i + 1));
-      if (v) total += a[static_cast<std::size_t>(i)];
-    }
-    ASSERT_EQ(solver.solve(), 10);
+  for_every_input(cnf, a, [&](const input_outcome& r) {
+    ASSERT_EQ(r.status, 10);
     for (std::size_t j = 1; j <= row.size(); ++j)
-      EXPECT_EQ(solver.val(row.at_least(j).dimacs()) > 0, total >= static_cast<std::int64_t>(j)) << bits;
-  }
+      EXPECT_EQ(r.solver.val(row.at_least(j).dimacs()) > 0, r.total >= static_cast<std::int64_t>(j)) << r.bits;
+  });
 }
 
 TEST(SequentialWeightCounter, HugeBoundIsOverBudget) {
@@ -742,8 +732,8 @@ TEST(WeightedOverflow, HandBuiltConstraintBeyondRangeNamesTheConstraint) {
   c.coefficients = {two_to(62), two_to(62), 3};
   c.index = 9;
   c.name = "by hand";
-  for (const auto m : {cw::method_id::bdd, cw::method_id::generalized_totalizer,
-                       cw::method_id::sequential_weight_counter}) {
+  for (const auto m :
+       {cw::method_id::bdd, cw::method_id::generalized_totalizer, cw::method_id::sequential_weight_counter}) {
     cw::variable_pool pool(3);
     cw::counting_sink sink;
     try {
