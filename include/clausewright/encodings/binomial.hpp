@@ -69,17 +69,9 @@ void emit_subsets(Sink& out, std::span<const literal> lits, std::size_t r, bool 
 template <class Sink>
 void encode_binomial(Sink& out, variable_pool& /*pool*/, const normalized_constraint& c,
                      const encode_options& /*options*/, std::uint64_t clause_budget = binomial_clause_budget) {
-  require_unit_coefficients(c, "the binomial encoding");
-  if (c.kind == constraint_kind::clause) {
-    out.add_clause(std::span<const literal>(c.literals));
-    return;
-  }
+  const cardinality_sides need = detail::cardinality_front(out, c, "the binomial encoding");
+  if (!need.at_most && !need.at_least) return;
   const std::int64_t k = c.bound;
-  const cardinality_sides need = needed_sides(c);
-  if (need.impossible) {
-    out.add_clause(std::span<const literal>());
-    return;
-  }
   const bool at_most = need.at_most;
   const bool at_least = need.at_least;
   const auto n = static_cast<std::int64_t>(c.size());

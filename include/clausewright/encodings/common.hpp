@@ -79,6 +79,21 @@ inline void require_unit_coefficients(const normalized_constraint& c, const char
 
 namespace detail {
 
+// The front of every cardinality method: checks the coefficients, and emits
+// what needs no counter itself (a clause; the empty clause when the bound
+// cannot be met). Returns the sides left to assert (neither: done).
+template <class Sink>
+[[nodiscard]] cardinality_sides cardinality_front(Sink& out, const normalized_constraint& c, const char* method) {
+  require_unit_coefficients(c, method);
+  if (c.kind == constraint_kind::clause) {
+    out.add_clause(std::span<const literal>(c.literals));
+    return {};
+  }
+  const cardinality_sides need = needed_sides(c);
+  if (need.impossible) out.add_clause(std::span<const literal>());
+  return need;
+}
+
 // Asserts sum {<=, >=, =} k on the unary outputs of a counter with unit
 // coefficients; `make(needed, which)` builds a counter whose first `needed`
 // outputs are exact in the sides `which` ("<= k" needs k+1 outputs, ">= k"
@@ -86,18 +101,9 @@ namespace detail {
 template <class Sink, class Make>
 void encode_with_counter(Sink& out, const normalized_constraint& c, const encode_options& options, const char* method,
                          Make&& make) {
-  require_unit_coefficients(c, method);
-  if (c.kind == constraint_kind::clause) {
-    out.add_clause(std::span<const literal>(c.literals));
-    return;
-  }
-  const std::int64_t k = c.bound;
-  const cardinality_sides need = needed_sides(c);
-  if (need.impossible) {
-    out.add_clause(std::span<const literal>());
-    return;
-  }
+  const cardinality_sides need = cardinality_front(out, c, method);
   if (!need.at_most && !need.at_least) return;
+  const std::int64_t k = c.bound;
   const unary_outputs r = make(static_cast<std::size_t>(need.at_most ? k + 1 : k), sides_for(c.rel, options));
   if (need.at_most) emit(out, r.at_most(static_cast<std::size_t>(k)));
   if (need.at_least) emit(out, r.at_least(static_cast<std::size_t>(k)));
