@@ -35,6 +35,20 @@ struct encoder_settings {
   std::uint64_t clause_budget = default_clause_budget;
 };
 
+// The method that encodes `c`: `chosen` when given (it must apply), else the
+// pick of the settings' policy; empty for constraints that need no method
+// (constants and single clauses).
+[[nodiscard]] inline std::optional<method_id> method_for(const variable_pool& pool, const normalized_constraint& c,
+                                                         std::optional<method_id> chosen,
+                                                         const encoder_settings& settings) {
+  if (c.is_constant() || c.kind == constraint_kind::clause) return std::nullopt;
+  if (chosen) {
+    require_applicable(*chosen, c);
+    return chosen;
+  }
+  return select_method(pool, c, settings.policy, settings.options, settings.clause_budget);
+}
+
 template <class Sink>
 class encoder {
   static_assert(check_clause_sink<Sink>());
@@ -88,14 +102,7 @@ class encoder {
     encoded_constraint result;
     result.index = c.index;
     result.kind = c.kind;
-    if (!c.is_constant() && c.kind != constraint_kind::clause) {
-      if (m && !can_encode(*m, c))
-        throw error(error_id::method_not_applicable,
-                    "method " + std::string(info(*m).name) + " cannot encode a " + std::string(to_string(c.kind)) +
-                        " constraint",
-                    c.where());
-      result.method = m ? *m : select_method(pool_, c, settings_.policy, settings_.options, settings_.clause_budget);
-    }
+    result.method = method_for(pool_, c, m, settings_);
     counting_sink counts;
     tee_sink<Sink, counting_sink> both(sink_, counts);
     const std::int32_t top_before = pool_.top();

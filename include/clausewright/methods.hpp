@@ -166,6 +166,16 @@ inline constexpr std::array method_table{
   return false;
 }
 
+// Throws method_not_applicable, naming the constraint, unless `id` can
+// encode `c`.
+inline void require_applicable(method_id id, const normalized_constraint& c) {
+  if (!can_encode(id, c))
+    throw error(error_id::method_not_applicable,
+                "method " + std::string(info(id).name) + " cannot encode a " + std::string(to_string(c.kind)) +
+                    " constraint",
+                c.where());
+}
+
 // Encodes a normalised constraint with the given method: its units as unit
 // clauses, the empty clause when it is impossible, nothing when it is
 // trivially true, and otherwise the method's clauses.
@@ -183,11 +193,7 @@ void encode_with(method_id id, Sink& out, variable_pool& pool, const normalized_
     case constraint_kind::clause: out.add_clause(std::span<const literal>(c.literals)); return;
     default: break;
   }
-  if (!can_encode(id, c))
-    throw error(error_id::method_not_applicable,
-                "method " + std::string(info(id).name) + " cannot encode a " + std::string(to_string(c.kind)) +
-                    " constraint",
-                c.where());
+  require_applicable(id, c);
   switch (id) {
     case method_id::pairwise: encode_pairwise(out, pool, c, options); return;
     case method_id::ladder: encode_ladder(out, pool, c, options); return;

@@ -582,15 +582,7 @@ literal add_soft(Sink& sink, variable_pool& pool, objective& cost, std::int64_t 
   }
   const literal r = pool.fresh();
   guarded_sink<Sink> guarded(sink, ~r);
-  std::optional<method_id> m = method;
-  if (!c.is_constant() && c.kind != constraint_kind::clause) {
-    if (m && !can_encode(*m, c))
-      throw error(error_id::method_not_applicable,
-                  "method " + std::string(info(*m).name) + " cannot encode a " + std::string(to_string(c.kind)) +
-                      " constraint",
-                  c.where());
-    if (!m) m = select_method(pool, c, settings.policy, settings.options, settings.clause_budget);
-  }
+  const std::optional<method_id> m = method_for(pool, c, method, settings);
   encode_with(m.value_or(method_id::pairwise), guarded, pool, c, settings.options);
   cost.add(weight, ~r);
   return r;
