@@ -496,22 +496,17 @@ void encode_model_constraint(Sink& sink, variable_pool& pool, const normalized_c
 // counting sink that also counts soft clauses), with a clause budget.
 class measuring_sink {
  public:
-  explicit measuring_sink(std::uint64_t clause_limit) : limit_(clause_limit) {}
-  void add_clause(std::span<const literal> clause) {
-    if (counts_.clauses() >= limit_)
-      throw error(error_id::over_budget, "encoding passed its budget of " + std::to_string(limit_) + " clauses");
-    counts_.add_clause(clause);
-  }
+  explicit measuring_sink(std::uint64_t clause_limit) : budget_(clause_limit) {}
+  void add_clause(std::span<const literal> clause) { budget_.add_clause(clause); }
   void add_soft_clause(std::int64_t /*weight*/, std::span<const literal> clause) {
-    add_clause(clause);
+    budget_.add_clause(clause);
     ++soft_;
   }
-  [[nodiscard]] const counting_sink& counts() const noexcept { return counts_; }
+  [[nodiscard]] const counting_sink& counts() const noexcept { return budget_.counts(); }
   [[nodiscard]] std::uint64_t soft_clauses() const noexcept { return soft_; }
 
  private:
-  counting_sink counts_;
-  std::uint64_t limit_;
+  budget_sink budget_;
   std::uint64_t soft_ = 0;
 };
 
