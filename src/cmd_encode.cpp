@@ -183,41 +183,31 @@ int run_encode(const encode_request& r) {
 
   model_stream in(r.model);
   progress_line progress(r.progress, r.no_progress || (to_stdout && ::isatty(STDOUT_FILENO) == 1));
+  // The exact header needs a dry run first on a pipe (no patching), and for
+  // the older WCNF form (its header carries the top weight).
+  std::optional<model_encoding_summary> exact;
+  if (to_stdout || (wcnf && r.older_wcnf)) exact = wcnf ? dry_run_wcnf(in, settings) : dry_run_cnf(in, settings);
+  // Writes through threaded_output into standard output, or into a file
+  // renamed into place only when complete.
+  const auto write = [&](byte_output& file) {
+    threaded_output out(file);
+    model_encoding_summary written = wcnf ? write_wcnf(in, out, settings, exact, r, progress)
+                                          : write_cnf(in, out, settings, exact, r, progress);
+    out.finish();
+    return written;
+  };
   model_encoding_summary s;
-  if (!wcnf) {
-    if (to_stdout) {
-      const auto exact = dry_run_cnf(in, settings);
-      fd_output file(STDOUT_FILENO, "standard output");
-      threaded_output out(file);
-      s = write_cnf(in, out, settings, exact, r, progress);
-      out.finish();
-    } else {
-      atomic_file_output file(r.output);
-      threaded_output out(file);
-      s = write_cnf(in, out, settings, std::nullopt, r, progress);
-      out.finish();
-      file.commit();
-    }
-    if (s.skipped_soft != 0)
-      std::fprintf(stderr,
-                   "clausewright: note: %llu soft constraints are not part of CNF output (use --format wcnf)\n",
-                   static_cast<unsigned long long>(s.skipped_soft));
+  if (to_stdout) {
+    fd_output file(STDOUT_FILENO, "standard output");
+    s = write(file);
   } else {
-    std::optional<model_encoding_summary> exact;
-    if (to_stdout || r.older_wcnf) exact = dry_run_wcnf(in, settings);
-    if (to_stdout) {
-      fd_output file(STDOUT_FILENO, "standard output");
-      threaded_output out(file);
-      s = write_wcnf(in, out, settings, exact, r, progress);
-      out.finish();
-    } else {
-      atomic_file_output file(r.output);
-      threaded_output out(file);
-      s = write_wcnf(in, out, settings, exact, r, progress);
-      out.finish();
-      file.commit();
-    }
+    atomic_file_output file(r.output);
+    s = write(file);
+    file.commit();
   }
+  if (!wcnf && s.skipped_soft != 0)
+    std::fprintf(stderr, "clausewright: note: %llu soft constraints are not part of CNF output (use --format wcnf)\n",
+                 static_cast<unsigned long long>(s.skipped_soft));
   return exit_success;
 }
 
