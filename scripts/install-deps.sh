@@ -1,8 +1,16 @@
 #!/usr/bin/env bash
-# Installs the Debian packages clausewright builds with, where they are missing.
+# Installs the Debian packages that scripts/demo.sh and scripts/test.sh use,
+# where they are missing. .ci/run proves the list complete: it runs both in a
+# minimal Debian 12 root that has nothing else.
 set -euo pipefail
-packages=(cmake g++ clang libcadical-dev nlohmann-json3-dev libcli11-dev libboost-dev libgtest-dev libgmock-dev
-          libbenchmark-dev)
+packages=(
+  # build: compilers, CMake, make (the generator CMake uses by default)
+  cmake make g++ clang
+  # test.sh: static analysis
+  clang-tidy
+  # libraries found with find_package
+  libcadical-dev nlohmann-json3-dev libcli11-dev libboost-dev libgtest-dev libgmock-dev libbenchmark-dev
+)
 missing=()
 for p in "${packages[@]}"; do
   dpkg-query -W -f='${Status}' "$p" 2>/dev/null | grep -q "install ok installed" || missing+=("$p")
