@@ -14,7 +14,7 @@ int main(int argc, char** argv) {
   CLI::App app{"clausewright: compile at-most-one, cardinality and pseudo-Boolean constraints into CNF"};
   app.set_version_flag("--version", "clausewright " CLAUSEWRIGHT_VERSION_STRING);
   app.require_subcommand(1);
-  app.footer("Exit codes: 0 success, 1 a negative answer (violated constraints, unsatisfiable), 2 bad input or usage.");
+  app.footer(cwt::exit_code_text);
   cwt::command_context context;
   cwt::register_encode(app, context);
   cwt::register_decode(app, context);
@@ -27,6 +27,8 @@ int main(int argc, char** argv) {
 #endif
   try {
     app.parse(argc, argv);
+    // Output lost on a full disk or a closed pipe is an error, not success.
+    cwt::finish_standard_output();
   } catch (const CLI::Success& e) {
     return app.exit(e);  // --help, --version
   } catch (const CLI::ParseError& e) {
