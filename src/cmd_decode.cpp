@@ -4,7 +4,9 @@
 // with their values, the objective, and a check of every original
 // constraint (on the user's terms, not on the clauses). Exit 0 when every
 // hard constraint holds, 1 when some is violated or the answer is
-// "unsatisfiable", 2 for bad input or an answer without an assignment.
+// "unsatisfiable", 2 for bad input (an answer without an assignment
+// included), 3 for an answer "s UNKNOWN": it decides nothing, whatever v
+// lines follow it, the same "no answer" as `solve` out of time.
 #include <cstdio>
 #include <memory>
 #include <string>
@@ -45,12 +47,13 @@ int run_decode(const decode_request& r) {
     answer = read_solver_output(in, m.variables());
   }
   if (answer.status == answer_status::unsatisfiable) {
-    std::printf("unsatisfiable: the solver found no assignment satisfying the hard constraints\n");
+    out_printf("unsatisfiable: the solver found no assignment satisfying the hard constraints\n");
     return exit_negative;
   }
-  if (answer.status == answer_status::unknown && !answer.any_literal) {
+  if (answer.status == answer_status::unknown) {
+    // Values after "s UNKNOWN" are not a solution the solver stands by.
     std::fprintf(stderr, "clausewright: the solver answered UNKNOWN: there is no assignment to check\n");
-    return exit_bad_input;
+    return exit_unknown;
   }
   if (!answer.any_literal && m.variables() > 0)
     throw error(error_id::parse, "the solver output " + r.answer + " has no 'v' lines and no literals");
@@ -66,13 +69,13 @@ int run_decode(const decode_request& r) {
       block += m.name_of(v);
       block += value(v) ? " = 1\n" : " = 0\n";
       if (block.size() > (1U << 16)) {
-        std::fputs(block.c_str(), stdout);
+        out_text(block);
         block.clear();
       }
     }
-    std::fputs(block.c_str(), stdout);
+    out_text(block);
   }
-  if (m.has_objective()) std::printf("objective %s\n", to_string(m.objective_value(value)).c_str());
+  if (m.has_objective()) out_printf("objective %s\n", to_string(m.objective_value(value)).c_str());
 
   const std::vector<violation> violated = m.check(value);
   std::uint64_t hard_violated = 0;
@@ -84,20 +87,20 @@ int run_decode(const decode_request& r) {
     if (v.soft()) {
       ++soft_violated;
       soft_cost += v.weight;
-      std::printf("soft constraint not satisfied (weight %lld): %s\n", static_cast<long long>(v.weight), text.c_str());
+      out_printf("soft constraint not satisfied (weight %lld): %s\n", static_cast<long long>(v.weight), text.c_str());
     } else {
       ++hard_violated;
-      std::printf("violated: %s\n", text.c_str());
+      out_printf("violated: %s\n", text.c_str());
     }
   }
   if (m.soft_constraints() != 0)
-    std::printf("soft cost %s (%llu of %zu soft constraints not satisfied)\n", to_string(soft_cost).c_str(),
+    out_printf("soft cost %s (%llu of %zu soft constraints not satisfied)\n", to_string(soft_cost).c_str(),
                 static_cast<unsigned long long>(soft_violated), m.soft_constraints());
   if (hard_violated == 0) {
-    std::printf("all %zu constraints hold\n", m.hard_constraints());
+    out_printf("all %zu constraints hold\n", m.hard_constraints());
     return exit_success;
   }
-  std::printf("%llu of %zu constraints violated\n", static_cast<unsigned long long>(hard_violated),
+  out_printf("%llu of %zu constraints violated\n", static_cast<unsigned long long>(hard_violated),
               m.hard_constraints());
   return exit_negative;
 }
@@ -115,6 +118,9 @@ void register_decode(CLI::App& app, command_context& context) {
                   "The solver's output: 's' and 'v' lines, or a bare list of literals (or - for standard input)")
       ->required();
   cmd->add_flag("--violations-only", r->violations_only, "Do not print the variables, only the check");
+  cmd->footer(
+      "Exit codes: 0 every constraint holds; 1 some constraint is violated, or the answer is UNSATISFIABLE; 2 bad "
+      "input (no assignment in the answer included), usage or an input/output error; 3 the answer is UNKNOWN.");
   cmd->callback([&context, r] { context.exit_code = run_decode(*r); });
 }
 

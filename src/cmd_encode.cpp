@@ -2,11 +2,15 @@
 //                    [--objective-bound B] [--pick POLICY]
 //
 // Streams the model constraint by constraint into DIMACS CNF or WCNF. A file
-// is written beside its target and renamed into place only when complete.
-// Standard output gets the exact header from a dry run first (the input is
-// read twice), which also means nothing is written for a malformed model.
+// is written beside its target and renamed into place only when complete
+// (a symbolic link is followed to its target; a device or a FIFO is written
+// in place, never replaced; the model file itself is refused as output).
+// Standard output, a device and a FIFO get the exact header from a dry run
+// first (the input is read twice), which also means nothing is written there
+// for a malformed model.
 // The bytes go through threaded_output: the write system calls run on a
 // second thread while the next block is formatted.
+#include <sys/stat.h>
 #include <unistd.h>
 
 #include <cstdio>
@@ -182,15 +186,31 @@ int run_encode(const encode_request& r) {
   const bool to_stdout = r.output.empty() || r.output == "-";
 
   model_stream in(r.model);
+  // The model is never overwritten by its own encoding: the output path may
+  // name the same file (also through a symbolic or a hard link).
+  if (!to_stdout && in.identity()) {
+    struct stat st {};
+    if (::stat(r.output.c_str(), &st) == 0 &&
+        file_identity{static_cast<std::uint64_t>(st.st_dev), static_cast<std::uint64_t>(st.st_ino)} == *in.identity())
+      throw error(error_id::usage, "the output " + r.output + " is the model file " + in.name() +
+                                       " itself: writing it would destroy the model");
+  }
+  // A file output: a temporary renamed into place, or, for a device or a
+  // FIFO, the target itself (never replaced).
+  std::optional<atomic_file_output> file;
+  if (!to_stdout) file.emplace(r.output);
+  const bool direct = to_stdout || file->direct();
   progress_line progress(r.progress, r.no_progress || (to_stdout && ::isatty(STDOUT_FILENO) == 1));
-  // The exact header needs a dry run first on a pipe (no patching), and for
-  // the older WCNF form (its header carries the top weight).
+  // The exact header needs a dry run first where the output cannot be patched
+  // (standard output, a device, a FIFO; this also means nothing is written
+  // there for a malformed model), and for the older WCNF form (its header
+  // carries the top weight).
   std::optional<model_encoding_summary> exact;
-  if (to_stdout || (wcnf && r.older_wcnf)) exact = wcnf ? dry_run_wcnf(in, settings) : dry_run_cnf(in, settings);
+  if (direct || (wcnf && r.older_wcnf)) exact = wcnf ? dry_run_wcnf(in, settings) : dry_run_cnf(in, settings);
   // Writes through threaded_output into standard output, or into a file
   // renamed into place only when complete.
-  const auto write = [&](byte_output& file) {
-    threaded_output out(file);
+  const auto write = [&](byte_output& target) {
+    threaded_output out(target);
     model_encoding_summary written = wcnf ? write_wcnf(in, out, settings, exact, r, progress)
                                           : write_cnf(in, out, settings, exact, r, progress);
     out.finish();
@@ -198,12 +218,11 @@ int run_encode(const encode_request& r) {
   };
   model_encoding_summary s;
   if (to_stdout) {
-    fd_output file(STDOUT_FILENO, "standard output");
-    s = write(file);
+    fd_output standard_output(STDOUT_FILENO, "standard output");
+    s = write(standard_output);
   } else {
-    atomic_file_output file(r.output);
-    s = write(file);
-    file.commit();
+    s = write(*file);
+    file->commit();
   }
   if (!wcnf && s.skipped_soft != 0)
     std::fprintf(stderr, "clausewright: note: %llu soft constraints are not part of CNF output (use --format wcnf)\n",
@@ -233,7 +252,7 @@ void register_encode(CLI::App& app, command_context& context) {
                 "Write comment lines: the variable map (name and number), and per constraint its method and size");
   cmd->add_flag("--full-equivalence", r->full_equivalence,
                 "Define auxiliary variables in both directions (default: only the direction needed)");
-  cmd->add_option("--budget", r->budget, "Clause budget of each dry run when the policy measures methods");
+  cmd->add_option("--budget", r->budget, "Clause budget of each dry run when the policy measures methods (1 to 10^15)")->check(budget_check());
   cmd->add_flag("--progress", r->progress, "Show the progress line on standard error even when it is not a terminal");
   cmd->add_flag("--no-progress", r->no_progress, "Never show the progress line");
   cmd->callback([&context, r] { context.exit_code = run_encode(*r); });

@@ -31,14 +31,14 @@ int run_methods(bool as_json) {
       row["size"] = std::string(m.size_note);
       out.push_back(std::move(row));
     }
-    std::printf("%s\n", out.dump(2).c_str());
+    out_printf("%s\n", out.dump(2).c_str());
     return exit_success;
   }
-  std::printf("%-26s %-36s %-15s %s\n", "method", "applies to", "arc-consistent", "source");
+  out_printf("%-26s %-36s %-15s %s\n", "method", "applies to", "arc-consistent", "source");
   for (const auto& m : method_table) {
     std::string applies;
     for (const auto& a : applies_names(m)) applies += (applies.empty() ? "" : ", ") + a;
-    std::printf("%-26s %-36s %-15s %s\n", std::string(m.name).c_str(), applies.c_str(),
+    out_printf("%-26s %-36s %-15s %s\n", std::string(m.name).c_str(), applies.c_str(),
                 m.arc_consistent ? "yes" : "no", std::string(m.source).c_str());
   }
   return exit_success;

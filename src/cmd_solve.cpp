@@ -11,8 +11,10 @@
 // standard error as it is found; the final status, the value and the
 // assignment of the model's variables go to standard output (as JSON with
 // --json). When the time limit ends the search, the best solution so far is
-// "satisfiable". Exit codes: 0 a solution, or none found in the time limit
-// ("unknown", not a negative answer); 1 unsatisfiable; 2 bad input or usage.
+// "satisfiable". Exit codes: 0 satisfiable (a model without objective or
+// soft constraints) or optimal; 1 unsatisfiable; 2 bad input, usage or an
+// input/output error; 3 unknown (the time limit came before a solution); 4
+// satisfiable but not proved optimal (the time limit ended the search).
 //
 // Text output: "status S", then "objective V" when there is one (and "soft
 // cost ..." with soft constraints, "lower bound ..." when the search was
@@ -109,19 +111,27 @@ void print_stats(const solve_request& r, bool to_stderr) {
   CLI::App inner;
   command_context context;
   register_stats(inner, context);
-  std::fflush(stdout);
+  finish_standard_output();
   int saved = -1;
   if (to_stderr) {
     saved = ::dup(STDOUT_FILENO);
     if (saved >= 0) static_cast<void>(::dup2(STDERR_FILENO, STDOUT_FILENO));
   }
   auto restore = [&] {
-    std::fflush(stdout);
-    if (saved >= 0) {
-      static_cast<void>(::dup2(saved, STDOUT_FILENO));
-      ::close(saved);
-      saved = -1;
+    const auto back = [&] {
+      if (saved >= 0) {
+        static_cast<void>(::dup2(saved, STDOUT_FILENO));
+        ::close(saved);
+        saved = -1;
+      }
+    };
+    try {
+      finish_standard_output();  // the table goes where it was meant to
+    } catch (...) {
+      back();
+      throw;
     }
+    back();
   };
   try {
     inner.parse(static_cast<int>(argv.size()), argv.data());
@@ -130,7 +140,7 @@ void print_stats(const solve_request& r, bool to_stderr) {
     throw;
   }
   restore();
-  std::printf("\n");
+  out_printf("\n");
 }
 
 // The value minimised, on the model's own terms: the objective's terms plus
@@ -265,7 +275,7 @@ int run_solve(const solve_request& r) {
     out["solutions"] = result.solutions;
     out["solver_calls"] = result.solves;
     out["seconds"] = std::chrono::duration<double>(solver_clock::now() - started).count();
-    std::printf("%s\n", out.dump(2).c_str());
+    out_printf("%s\n", out.dump(2).c_str());
   } else {
     std::string block = "status " + status + "\n";
     if (has_solution && optimising) block += "objective " + std::to_string(*result.objective) + "\n";
@@ -279,14 +289,20 @@ int run_solve(const solve_request& r) {
         block += m.name_of(v);
         block += result.values[static_cast<std::size_t>(v)] ? " = 1\n" : " = 0\n";
         if (block.size() > (1U << 16)) {
-          std::fputs(block.c_str(), stdout);
+          out_text(block);
           block.clear();
         }
       }
     }
-    std::fputs(block.c_str(), stdout);
+    out_text(block);
   }
-  return result.status == optimize_status::unsatisfiable ? exit_negative : exit_success;
+  switch (result.status) {
+    case optimize_status::unsatisfiable: return exit_negative;
+    case optimize_status::unknown: return exit_unknown;
+    case optimize_status::satisfiable: return optimising ? exit_not_proved_optimal : exit_success;
+    case optimize_status::optimal: break;
+  }
+  return exit_success;
 }
 
 }  // namespace
@@ -326,6 +342,10 @@ void register_solve(CLI::App& app, command_context& context) {
   cmd->add_option("--bound", r->bound,
                   "How the objective is bounded: automatic (default), totalizer, sequential-counter, "
                   "generalized-totalizer, sequential-weight-counter, bdd, adder, reencode");
+  cmd->footer(
+      "Exit codes: 0 satisfiable (no objective, no soft constraints) or optimal; 1 unsatisfiable; 2 bad input, usage "
+      "or an input/output error; 3 unknown (the time limit came before any solution); 4 satisfiable, not proved "
+      "optimal (the time limit ended the search).");
   cmd->callback([&context, r] { context.exit_code = run_solve(*r); });
 }
 

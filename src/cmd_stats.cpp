@@ -251,35 +251,35 @@ class stats_collector final : public model_handler {
         for (const auto& mr : row.methods) used = used || (mr.id == m.id && !row.trivial);
       if (used) shown.push_back(m.id);
     }
-    std::printf("model %s: %d variables, %zu constraints", file_.c_str(), user_variables_, rows_.size());
-    if (products_ != 0) std::printf(", %llu products", static_cast<unsigned long long>(products_));
-    std::printf("; policy %s\n", std::string(to_string(settings_.policy)).c_str());
-    std::printf("cells: clauses/auxiliary variables of each method ('-' does not apply, 'over' passed the budget)\n\n");
-    std::printf("%-24s %-12s %7s", "constraint", "kind", "lits");
-    for (const method_id id : shown) std::printf(" %*s", column_width(id), std::string(info(id).name).c_str());
-    std::printf("  picked\n");
+    out_printf("model %s: %d variables, %zu constraints", file_.c_str(), user_variables_, rows_.size());
+    if (products_ != 0) out_printf(", %llu products", static_cast<unsigned long long>(products_));
+    out_printf("; policy %s\n", std::string(to_string(settings_.policy)).c_str());
+    out_printf("cells: clauses/auxiliary variables of each method ('-' does not apply, 'over' passed the budget)\n\n");
+    out_printf("%-24s %-12s %7s", "constraint", "kind", "lits");
+    for (const method_id id : shown) out_printf(" %*s", column_width(id), std::string(info(id).name).c_str());
+    out_printf("  picked\n");
     for (const auto& row : rows_) {
       std::string label = "#" + std::to_string(row.index);
       if (!row.name.empty()) label += " " + row.name;
       if (row.weight > 0) label += " [soft " + std::to_string(row.weight) + "]";
       if (label.size() > 24) label = label.substr(0, 23) + "~";
-      std::printf("%-24s %-12s %7zu", label.c_str(), std::string(to_string(row.kind)).c_str(), row.inputs);
+      out_printf("%-24s %-12s %7zu", label.c_str(), std::string(to_string(row.kind)).c_str(), row.inputs);
       for (const method_id id : shown) {
         std::string cell = "-";
         for (const auto& mr : row.methods)
           if (mr.id == id)
             cell = mr.over_budget ? "over" : std::to_string(mr.size.clauses) + "/" + std::to_string(mr.size.variables);
-        std::printf(" %*s", column_width(id), cell.c_str());
+        out_printf(" %*s", column_width(id), cell.c_str());
       }
-      std::printf("  %s\n", !row.picked ? "(over budget)"
+      out_printf("  %s\n", !row.picked ? "(over budget)"
                              : row.trivial ? "(any)"
                                            : std::string(info(*row.picked).name).c_str());
     }
-    std::printf("\ntotals (constraints only; products add %llu clauses and %llu variables, the objective %llu soft "
+    out_printf("\ntotals (constraints only; products add %llu clauses and %llu variables, the objective %llu soft "
                 "clauses in WCNF)\n",
                 static_cast<unsigned long long>(product_clauses_), static_cast<unsigned long long>(products_),
                 static_cast<unsigned long long>(objective_units_));
-    std::printf("  %-28s %14s %14s %16s\n", "", "clauses", "aux variables", "literals");
+    out_printf("  %-28s %14s %14s %16s\n", "", "clauses", "aux variables", "literals");
     print_total("picked", picked_);
     for (const auto& m : method_table) print_total(std::string("all ") + std::string(m.name), by_method_.at(m.id));
   }
@@ -317,7 +317,7 @@ class stats_collector final : public model_handler {
     return j;
   }
   void print_total(const std::string& label, const total& t) const {
-    std::printf("  %-28s %14llu %14llu %16llu%s\n", label.c_str(), static_cast<unsigned long long>(t.clauses),
+    out_printf("  %-28s %14llu %14llu %16llu%s\n", label.c_str(), static_cast<unsigned long long>(t.clauses),
                 static_cast<unsigned long long>(t.vars), static_cast<unsigned long long>(t.literals),
                 t.over_budget ? "  (over budget)" : "");
   }
@@ -350,7 +350,7 @@ int run_stats(const stats_request& r) {
   stats_collector stats(settings);
   in.run(stats);
   if (r.as_json)
-    std::printf("%s\n", stats.to_json(r).dump(2).c_str());
+    out_printf("%s\n", stats.to_json(r).dump(2).c_str());
   else
     stats.print_table();
   return exit_success;
@@ -370,7 +370,7 @@ void register_stats(CLI::App& app, command_context& context) {
   // One name per --method: a vector option would otherwise swallow MODEL too.
   cmd->add_option("--method", r->methods, "As for encode: the methods to use where they apply (repeatable)")
       ->allow_extra_args(false);
-  cmd->add_option("--budget", r->budget, "Clause budget of each dry run (default 50000000)");
+  cmd->add_option("--budget", r->budget, "Clause budget of each dry run (1 to 10^15, default 50000000)")->check(budget_check());
   cmd->add_flag("--full-equivalence", r->full_equivalence, "Measure with auxiliary variables defined both ways");
   cmd->callback([&context, r] { context.exit_code = run_stats(*r); });
 }

@@ -2,12 +2,25 @@
 //
 // Each command lives in its own cmd_<name>.cpp and registers itself on the
 // application: it adds its subcommand and options, and a callback that runs
-// the command and leaves the exit code in the context. Exit codes: 0 success,
-// 1 a negative answer (violated constraints, unsatisfiable), 2 bad input or
-// usage. Errors are thrown as clausewright::error; main prints them.
+// the command and leaves the exit code in the context. Errors are thrown as
+// clausewright::error; main prints them.
+//
+// Exit codes, the same for every command:
+//   0  success: satisfiable, optimal, every constraint holds, output written
+//   1  a negative answer: unsatisfiable, violated constraints
+//   2  bad input, bad usage, or an input/output error (a full disk, a
+//      closed pipe): the message says which
+//   3  no answer: `solve` stopped by its time limit before a solution, or a
+//      solver output given to `decode` that says UNKNOWN (it decides
+//      nothing, like a run out of time; malformed input stays 2)
+//   4  a solution that is not proved optimal: `solve` of a model with an
+//      objective or soft constraints stopped by its time limit after it
+//      found a solution (printed, with the lower bound proved so far)
 #pragma once
 
+#include <cstdint>
 #include <string>
+#include <string_view>
 #include <vector>
 
 #include <CLI/CLI.hpp>
@@ -19,6 +32,14 @@ namespace clausewright::tool {
 inline constexpr int exit_success = 0;
 inline constexpr int exit_negative = 1;
 inline constexpr int exit_bad_input = 2;
+inline constexpr int exit_unknown = 3;
+inline constexpr int exit_not_proved_optimal = 4;
+// The exit codes as the help footer and the commands' help show them.
+inline constexpr const char* exit_code_text =
+    "Exit codes: 0 success (satisfiable, optimal, all constraints hold); 1 a negative answer (unsatisfiable, "
+    "violated constraints); 2 bad input, usage or an input/output error; 3 no answer (solve stopped by its time "
+    "limit without a solution, decode of an UNKNOWN answer); 4 a solution not proved optimal (solve stopped by its "
+    "time limit).";
 
 struct command_context {
   int exit_code = exit_success;
@@ -42,6 +63,20 @@ void register_unavailable(CLI::App& app, command_context& context, const std::st
 // A --pick policy name (an unknown one is an error listing the valid ones).
 [[nodiscard]] selection_policy policy_from_name(const std::string& name);
 [[nodiscard]] std::string policy_names();
+
+// A --budget value: a positive integer up to max_clause_budget; anything else
+// (0, negative, too large, not a number) is a usage error.
+inline constexpr std::uint64_t max_clause_budget = 1'000'000'000'000'000;  // 10^15
+[[nodiscard]] CLI::Validator budget_check();
+
+// Standard output of the commands. Every write is checked: a failed one (a
+// full disk, a closed pipe) throws an input/output error with the system's
+// message, and main checks the final flush, so no output is lost with exit 0.
+void out_text(std::string_view text);
+void out_printf(const char* format, ...) __attribute__((format(printf, 1, 2)));
+// Flushes standard output; throws the error of a failed flush or an earlier
+// failed write.
+void finish_standard_output();
 
 // A progress line on standard error for long runs: shown when standard error
 // is a terminal (or when forced) and the run has taken over a second.

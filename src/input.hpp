@@ -2,12 +2,18 @@
 //
 // Readers pull blocks, never the whole text, and may ask to start again from
 // the beginning (a second pass to count before writing to a pipe). Standard
-// input is copied to an unlinked temporary file so it can be read twice.
+// input, and any path that is not a regular file (a pipe such as
+// `<(command)`, a FIFO, a device), is copied to an unlinked temporary file so
+// it can be read twice.
+//
+// char_cursor skips a UTF-8 byte-order mark (EF BB BF) at the very start:
+// editors write one, and it is no part of either model format.
 #pragma once
 
 #include <cstddef>
 #include <cstdint>
 #include <memory>
+#include <optional>
 #include <string>
 #include <string_view>
 
@@ -28,6 +34,14 @@ class byte_source {
   byte_source& operator=(const byte_source&) = default;
 };
 
+// Which file a path names: device and inode, compared to refuse an output
+// path that is the input itself (through a symbolic or a hard link too).
+struct file_identity {
+  std::uint64_t device = 0;
+  std::uint64_t inode = 0;
+  friend bool operator==(const file_identity&, const file_identity&) = default;
+};
+
 // A file, or standard input for "-".
 class file_source final : public byte_source {
  public:
@@ -38,10 +52,13 @@ class file_source final : public byte_source {
   std::size_t read(char* data, std::size_t size) override;
   void rewind() override;
   [[nodiscard]] const std::string& name() const override { return name_; }
+  // The regular file read (none for a spooled copy: nothing can overwrite it).
+  [[nodiscard]] const std::optional<file_identity>& identity() const noexcept { return identity_; }
 
  private:
   int fd_ = -1;
   std::string name_;
+  std::optional<file_identity> identity_;
 };
 
 // Bytes already in memory (tests and fuzzers).
@@ -74,11 +91,17 @@ class char_cursor {
     if (at_end_) return end;
     size_ = in_.read(buffer_.get(), block_size_);
     pos_ = 0;
+    if (first_block_) {
+      first_block_ = false;
+      // A byte-order mark is skipped; its bytes count for no column.
+      if (size_ >= 3 && buffer_[0] == '\xEF' && buffer_[1] == '\xBB' && buffer_[2] == '\xBF') pos_ = 3;
+      if (pos_ == size_) return peek();
+    }
     if (size_ == 0) {
       at_end_ = true;
       return end;
     }
-    return static_cast<unsigned char>(buffer_[0]);
+    return static_cast<unsigned char>(buffer_[pos_]);
   }
   // Moves past the character peek() returned (not at the end).
   void advance() {
@@ -101,6 +124,7 @@ class char_cursor {
   std::size_t pos_ = 0;
   std::size_t size_ = 0;
   bool at_end_ = false;
+  bool first_block_ = true;
   std::uint64_t line_ = 1;
   std::uint64_t column_ = 1;
 };

@@ -5,6 +5,8 @@
 #include <limits>
 #include <optional>
 #include <string>
+#include <unordered_map>
+#include <utility>
 #include <vector>
 
 #include <nlohmann/json.hpp>
@@ -146,6 +148,71 @@ const char* type_name(const json& v) {
   return "a value";
 }
 
+// --- repeated keys -------------------------------------------------------------------------
+
+// The first key that repeats a key of its object, in a text already parsed
+// as JSON: the offset of its opening quote and of the first one. nlohmann's
+// parser keeps the last value of a repeated key without a word, which would
+// silently change the model (a second "constraints", a repeated "k").
+struct repeated_key {
+  std::size_t at = 0;
+  std::size_t first = 0;
+  std::string key;
+};
+
+std::optional<repeated_key> find_repeated_key(std::string_view text) {
+  struct frame {
+    bool object = false;
+    // Keys as written and where; an escaped key is decoded, so "a" and
+    // "\u0061" are the same key. Objects of the format have a few keys: a
+    // linear search, a set only for larger ones.
+    std::vector<std::pair<std::string, std::size_t>> keys;
+    std::unordered_map<std::string, std::size_t> many;
+  };
+  std::vector<frame> stack;
+  bool expect_key = false;
+  for (std::size_t i = 0; i < text.size(); ++i) {
+    const char c = text[i];
+    if (c == '{' || c == '[') {
+      stack.emplace_back();
+      stack.back().object = c == '{';
+      expect_key = c == '{';
+    } else if (c == '}' || c == ']') {
+      if (!stack.empty()) stack.pop_back();
+      expect_key = false;
+    } else if (c == ',') {
+      expect_key = !stack.empty() && stack.back().object;
+    } else if (c == '"') {
+      const std::size_t start = i;
+      bool escaped = false;
+      for (++i; i < text.size() && text[i] != '"'; ++i) {
+        if (text[i] == '\\') {
+          escaped = true;
+          ++i;
+        }
+      }
+      if (!expect_key || stack.empty()) continue;
+      expect_key = false;
+      std::string key(text.substr(start + 1, i - start - 1));
+      if (escaped) key = json::parse(text.substr(start, i - start + 1)).get<std::string>();
+      frame& f = stack.back();
+      std::optional<std::size_t> first;
+      if (f.keys.size() < 16) {
+        for (const auto& [k, where] : f.keys)
+          if (k == key) first = where;
+      } else {
+        if (f.many.empty())
+          for (const auto& [k, where] : f.keys) f.many.emplace(k, where);
+        if (const auto it = f.many.find(key); it != f.many.end()) first = it->second;
+      }
+      if (first) return repeated_key{start, *first, std::move(key)};
+      if (!f.many.empty()) f.many.emplace(key, start);
+      f.keys.emplace_back(std::move(key), start);
+    }
+  }
+  return std::nullopt;
+}
+
 // --- the reader -----------------------------------------------------------------------------------
 
 class json_reader {
@@ -173,6 +240,12 @@ class json_reader {
         if (!token.empty()) offset = std::min(text_.find(token), text_.size());
       }
       fail_offset(offset, "a number does not fit in 64 bits: " + what.substr(what.find(']') + 2));
+    }
+    if (const auto repeated = find_repeated_key(text_)) {
+      const source_position first = position_of(text_, repeated->first);
+      fail_offset(repeated->at, "the key \"" + repeated->key + "\" appears twice in one object (first at line " +
+                                    std::to_string(first.line) + ", column " + std::to_string(first.column) +
+                                    "): each key may be given once");
     }
     model_.set_file(file_);
     json_path path;
@@ -484,7 +557,11 @@ bool valid_variable_name(std::string_view name) noexcept {
   return true;
 }
 
-model parse_json_model(std::string_view text, const std::string& file) { return json_reader(text, file).read(); }
+model parse_json_model(std::string_view text, const std::string& file) {
+  // A UTF-8 byte-order mark is skipped; positions count from after it.
+  if (text.substr(0, 3) == "\xEF\xBB\xBF") text.remove_prefix(3);
+  return json_reader(text, file).read();
+}
 
 model read_json_model(byte_source& in) {
   std::string text;

@@ -19,10 +19,14 @@ model_format detect_format(byte_source& in) {
   std::vector<char> block(4096);
   char first = '\0';
   bool found = false;
+  bool start = true;
   while (!found) {
     const std::size_t n = in.read(block.data(), block.size());
     if (n == 0) break;
-    for (std::size_t i = 0; i < n; ++i) {
+    // A byte-order mark at the start is no part of the content.
+    const std::size_t skip = start && n >= 3 && block[0] == '\xEF' && block[1] == '\xBB' && block[2] == '\xBF' ? 3 : 0;
+    start = false;
+    for (std::size_t i = skip; i < n; ++i) {
       const char c = block[i];
       if (c != ' ' && c != '\t' && c != '\n' && c != '\r') {
         first = c;

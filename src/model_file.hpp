@@ -12,7 +12,8 @@ namespace clausewright::tool {
 enum class model_format { opb, json };
 
 // ".opb" and ".json" decide; otherwise a file whose first non-blank byte is
-// '{' is JSON, anything else OPB. An empty file is an error. Rewinds `in`.
+// '{' is JSON, anything else OPB (a leading UTF-8 byte-order mark is
+// skipped). An empty file is an error. Rewinds `in`.
 [[nodiscard]] model_format detect_format(byte_source& in);
 
 // The whole model in memory (decode, tests).
@@ -40,6 +41,7 @@ class model_stream {
   void run(model_handler& handler);
   [[nodiscard]] model_format format() const noexcept { return format_; }
   [[nodiscard]] const std::string& name() const { return source_.name(); }
+  [[nodiscard]] const std::optional<file_identity>& identity() const noexcept { return source_.identity(); }
 
  private:
   file_source source_;

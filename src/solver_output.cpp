@@ -50,6 +50,7 @@ class answer_reader {
       }
     }
     if (!any_line) fail("the solver output is empty: expected 's' and 'v' lines or a list of literals");
+    settle_first();
     return std::move(answer_);
   }
 
@@ -109,9 +110,9 @@ class answer_reader {
       const int c = peek();
       if (c == -1 || c == '\n') return;
       const error_position at = position();
-      // A string of 0/1 values is kept whole (one byte per variable);
-      // anything else beyond the length of the longest literal is an error
-      // already, so it is cut there.
+      // A token of 0s and 1s is kept whole (it may be the string of values,
+      // one byte per variable); anything else beyond the length of the
+      // longest literal is an error already, so it is cut there.
       std::string token;
       bool bits = true;
       for (int d = peek(); d != -1 && d != '\n' && d != ' ' && d != '\t' && d != '\r'; d = peek()) {
@@ -119,12 +120,48 @@ class answer_reader {
         if (bits || token.size() < 24) token.push_back(static_cast<char>(d));
         advance();
       }
-      if (v_line && token.size() > 1 && token.find_first_not_of("01") == std::string::npos) {
-        bit_string(token, at);
+      if (!v_line) {
+        literal_token(token, at);
         continue;
       }
+      // Which form the v lines use is decided from the whole answer, never
+      // token by token: "v 1 -2 10 0" holds the literals 1, -2 and 10, not
+      // two strings of values. The string form is a single token, so the
+      // first v token is held back until a second one shows the answer is
+      // a list of literals (or the end shows it is the only one).
+      ++v_tokens_;
+      if (v_tokens_ == 1 && bits) {
+        first_v_token_ = std::move(token);
+        first_v_at_ = at;
+        holding_first_ = true;
+        continue;
+      }
+      release_first();
       literal_token(token, at);
     }
+  }
+
+  // The held-back first v token is a literal after all.
+  void release_first() {
+    if (!holding_first_) return;
+    holding_first_ = false;
+    literal_token(first_v_token_, first_v_at_);
+    first_v_token_.clear();
+  }
+
+  // At the end: a single v token of 0s and 1s with a value for every
+  // variable of the model (the formula may have more, its auxiliary
+  // variables) and no closing 0 token is the MaxSAT Evaluation's string of
+  // values; anything shorter is a literal ("v 1", "v 10").
+  void settle_first() {
+    if (!holding_first_) return;
+    if (v_tokens_ == 1 && first_v_token_.size() >= static_cast<std::size_t>(variables_) && first_v_token_.size() > 1) {
+      holding_first_ = false;
+      bit_string(first_v_token_, first_v_at_);
+      first_v_token_.clear();
+      return;
+    }
+    release_first();
   }
 
   // The MaxSAT Evaluation's "v 0110...": the value of variable i+1 at index i.
@@ -171,6 +208,10 @@ class answer_reader {
   std::int32_t variables_;
   error_position line_start_;
   solver_answer answer_;
+  std::uint64_t v_tokens_ = 0;  // tokens on v lines, the closing 0 included
+  bool holding_first_ = false;
+  std::string first_v_token_;
+  error_position first_v_at_;
 };
 
 }  // namespace

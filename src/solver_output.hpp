@@ -7,6 +7,11 @@
 //   v 1 -2 3 0                 literals, over any number of v lines
 //   v 0110                     the MaxSAT Evaluation's string of 0/1 values
 // or a bare list of literals (one or more lines of integers, 0 optional).
+//
+// The two forms of v lines are told apart on the whole answer: the string of
+// values is the only token on the v lines, made of 0s and 1s alone, at least
+// as long as the model's variable count, without a closing 0. Every other
+// answer is a list of literals, so "v 1 -2 10 0" sets variable 10 true.
 #pragma once
 
 #include <cstdint>

@@ -1,7 +1,10 @@
 #include <unistd.h>
 
+#include <cerrno>
 #include <chrono>
+#include <cstdarg>
 #include <cstdio>
+#include <cstring>
 
 #include "commands.hpp"
 
@@ -29,6 +32,103 @@ std::string policy_names() {
 selection_policy policy_from_name(const std::string& name) {
   if (auto p = find_policy(name)) return *p;
   throw error(error_id::usage, "unknown selection policy '" + name + "'; valid policies: " + policy_names());
+}
+
+CLI::Validator budget_check() {
+  return CLI::Validator(
+      [](std::string& text) {
+        const std::string expected = "expected a clause budget from 1 to " + std::to_string(max_clause_budget) + ", found '" + text + "'";
+        if (text.empty() || text.size() > 16 || text.find_first_not_of("0123456789") != std::string::npos)
+          return expected;
+        const std::uint64_t value = std::stoull(text);
+        if (value == 0 || value > max_clause_budget) return expected;
+        return std::string();
+      },
+      "N", "clause budget");
+}
+
+namespace {
+
+[[noreturn]] void standard_output_failed(int code) {
+  throw error(error_id::io, std::string("writing standard output failed") +
+                                (code != 0 ? std::string(": ") + std::strerror(code) : std::string()));
+}
+
+// The commands' standard output, written with write(2) in blocks: stdio's
+// buffered writes do not keep errno when a flush fails inside them.
+class standard_output {
+ public:
+  static constexpr std::size_t block = std::size_t{1} << 16;
+
+  void put(std::string_view text) {
+    if (pending_.size() + text.size() > block) flush();
+    if (text.size() > block) {
+      write_all(text);
+      return;
+    }
+    pending_.append(text);
+  }
+  void flush() {
+    std::string text;
+    text.swap(pending_);  // dropped even when the write fails: reported once
+    pending_.reserve(block);
+    write_all(text);
+  }
+
+ private:
+  static void write_all(std::string_view text) {
+    const char* data = text.data();
+    std::size_t size = text.size();
+    while (size > 0) {
+      const ::ssize_t n = ::write(STDOUT_FILENO, data, size);
+      if (n < 0) {
+        if (errno == EINTR) continue;
+        standard_output_failed(errno);
+      }
+      data += n;
+      size -= static_cast<std::size_t>(n);
+    }
+  }
+  std::string pending_;
+};
+
+standard_output& stdout_buffer() {
+  static standard_output out;
+  return out;
+}
+
+}  // namespace
+
+void out_text(std::string_view text) {
+  // What stdio holds (a --help text) goes first.
+  if (std::fflush(stdout) != 0) standard_output_failed(errno);
+  stdout_buffer().put(text);
+}
+
+void out_printf(const char* format, ...) {
+  // Formatted here and written by out_text: stdio's formatted writes lose
+  // errno when their flush fails half-way.
+  std::va_list args;
+  va_start(args, format);
+  std::va_list again;
+  va_copy(again, args);
+  const int n = std::vsnprintf(nullptr, 0, format, args);
+  va_end(args);
+  if (n < 0) {
+    va_end(again);
+    throw error(error_id::io, "formatting the output failed");
+  }
+  std::string text(static_cast<std::size_t>(n) + 1, '\0');
+  (void)std::vsnprintf(text.data(), text.size(), format, again);
+  va_end(again);
+  text.pop_back();
+  out_text(text);
+}
+
+void finish_standard_output() {
+  errno = 0;
+  if (std::fflush(stdout) != 0 || std::ferror(stdout) != 0) standard_output_failed(errno);
+  stdout_buffer().flush();
 }
 
 progress_line::progress_line(bool force, bool never)

@@ -5,12 +5,14 @@
 #pragma once
 
 #include <fcntl.h>
+#include <sys/stat.h>
 #include <unistd.h>
 
 #include <algorithm>
 #include <cerrno>
 #include <charconv>
 #include <condition_variable>
+#include <csignal>
 #include <cstdint>
 #include <cstdio>
 #include <cstring>
@@ -98,59 +100,175 @@ class fd_output : public byte_output {
   std::string name_;
 };
 
-// Writes to a temporary file beside `target` and renames it into place only on
-// commit(): a failure (or a destructor without commit) removes the temporary,
-// so a half-written output file never appears under the target name.
+// The temporary file an atomic_file_output is writing, for a signal handler
+// to remove (remove_pending_temporary): a fixed buffer and a flag, the only
+// things a handler may touch. One at a time; a path too long for the buffer
+// is not registered.
+inline char pending_temporary_path[4096] = {};
+inline volatile std::sig_atomic_t pending_temporary_set = 0;
+
+// Removes the temporary file being written, if any. Async-signal-safe: a
+// handler of SIGINT, SIGTERM or SIGHUP calls it before the signal's default
+// action ends the program.
+inline void remove_pending_temporary() noexcept {
+  if (pending_temporary_set != 0) {
+    pending_temporary_set = 0;
+    ::unlink(pending_temporary_path);
+  }
+}
+
+// `path` with every symbolic link along its last component followed (the
+// directories may be links too; the kernel follows those): the file a write
+// to `path` would reach. A dangling link gives the path it points to, where
+// the file is then created.
+[[nodiscard]] inline std::string resolve_output_path(const std::string& path) {
+  std::string at = path;
+  for (int hops = 0;; ++hops) {
+    struct stat st {};
+    if (::lstat(at.c_str(), &st) != 0 || !S_ISLNK(st.st_mode)) return at;
+    if (hops == 40) throw error(error_id::io, "cannot write " + path + ": too many levels of symbolic links");
+    std::string link(static_cast<std::size_t>(st.st_size > 0 ? st.st_size : 255) + 1, '\0');
+    const ::ssize_t n = ::readlink(at.c_str(), link.data(), link.size());
+    if (n < 0) throw error(error_id::io, "cannot follow the symbolic link " + at + ": " + std::strerror(errno));
+    link.resize(static_cast<std::size_t>(n));
+    if (link.empty() || link.front() != '/') {
+      const auto slash = at.rfind('/');
+      link = (slash == std::string::npos ? std::string() : at.substr(0, slash + 1)) + link;
+    }
+    at = std::move(link);
+  }
+}
+
+// Writes a file so that it never appears half-written and never destroys what
+// is not a regular file.
+// - A regular file (existing or new) is written to a temporary beside it and
+//   renamed into place only on commit(): a failure (or a destructor without
+//   commit) removes the temporary. An existing file keeps its permissions
+//   (and, as far as allowed, its owner); the temporary is private (0600)
+//   until then. A new file gets 0666 less the umask.
+// - A symbolic link is followed first: its target is written, the link stays.
+// - Anything else that exists (a device such as /dev/null, a FIFO, a socket)
+//   is opened and written directly, never replaced: renaming a file over it
+//   would destroy it. Such an output cannot be patched, and a failure may
+//   leave part of the bytes written there.
+// While a temporary exists, its path is registered for
+// remove_pending_temporary().
 class atomic_file_output final : public fd_output {
  public:
-  explicit atomic_file_output(const std::string& target) : fd_output(-1, target), target_(target) {
+  explicit atomic_file_output(const std::string& target)
+      : fd_output(-1, target), target_(resolve_output_path(target)) {
+    struct stat st {};
+    const bool exists = ::stat(target_.c_str(), &st) == 0;
+    if (exists && !S_ISREG(st.st_mode)) {
+      if (S_ISDIR(st.st_mode)) throw error(error_id::io, "cannot write " + name() + ": it is a directory");
+      const int fd = ::open(target_.c_str(), O_WRONLY | O_CLOEXEC | O_NOCTTY);
+      if (fd < 0) throw error(error_id::io, "cannot open " + name() + " for writing: " + std::strerror(errno));
+      set_fd(fd);
+      direct_ = true;
+      return;
+    }
+    if (exists) {
+      mode_ = st.st_mode & 07777;
+      owner_ = st.st_uid;
+      group_ = st.st_gid;
+      keep_ = true;
+    }
     std::random_device entropy;
     for (int attempt = 0; attempt < 16; ++attempt) {
       temporary_ = target_ + ".tmp-" + std::to_string(::getpid()) + "-" + std::to_string(entropy() % 1000000);
-      const int fd = ::open(temporary_.c_str(), O_WRONLY | O_CREAT | O_EXCL | O_CLOEXEC, 0644);
+      const int fd = ::open(temporary_.c_str(), O_WRONLY | O_CREAT | O_EXCL | O_CLOEXEC, keep_ ? 0600 : 0666);
       if (fd >= 0) {
         set_fd(fd);
+        register_temporary();
         return;
       }
       if (errno != EEXIST) break;
     }
-    throw error(error_id::io, "cannot create a temporary file beside " + target_ + ": " + std::strerror(errno));
+    const int saved = errno;
+    temporary_.clear();
+    throw error(error_id::io, "cannot create a temporary file beside " + target_ + ": " + std::strerror(saved));
   }
   atomic_file_output(const atomic_file_output&) = delete;
   atomic_file_output& operator=(const atomic_file_output&) = delete;
   ~atomic_file_output() override { discard(); }
 
+  [[nodiscard]] bool can_patch() const override { return !direct_ && fd_output::can_patch(); }
+
   void commit() {
     if (fd() < 0) throw error(error_id::usage, "output already closed");
     const int fd_to_close = fd();
     set_fd(-1);
+    if (direct_) {
+      committed_ = true;
+      if (::close(fd_to_close) != 0 && errno != EINTR)
+        throw error(error_id::io, "closing " + name() + " failed: " + std::strerror(errno));
+      return;
+    }
+    if (keep_) {
+      // Best effort for the owner (only root may give a file away); the
+      // permissions are set after it, as chown may clear set-id bits.
+      if (owner_ != ::geteuid() || group_ != ::getegid()) static_cast<void>(::fchown(fd_to_close, owner_, group_));
+      if (::fchmod(fd_to_close, mode_) != 0) {
+        const int saved = errno;
+        ::close(fd_to_close);
+        remove_temporary();
+        throw error(error_id::io, "keeping the permissions of " + name() + " failed: " + std::strerror(saved));
+      }
+    }
     if (::close(fd_to_close) != 0) {
-      ::unlink(temporary_.c_str());
-      throw error(error_id::io, "closing " + target_ + " failed: " + std::strerror(errno));
+      const int saved = errno;
+      remove_temporary();
+      throw error(error_id::io, "closing " + name() + " failed: " + std::strerror(saved));
     }
     if (::rename(temporary_.c_str(), target_.c_str()) != 0) {
       const int saved = errno;
-      ::unlink(temporary_.c_str());
+      remove_temporary();
       throw error(error_id::io, "renaming the output into " + target_ + " failed: " + std::strerror(saved));
     }
     committed_ = true;
+    unregister_temporary();
   }
   void discard() noexcept {
     if (fd() >= 0) {
       ::close(fd());
       set_fd(-1);
     }
-    if (!committed_ && !temporary_.empty()) {
-      ::unlink(temporary_.c_str());
-      temporary_.clear();
-    }
+    if (!committed_) remove_temporary();
   }
   [[nodiscard]] const std::string& temporary_path() const noexcept { return temporary_; }
+  // The file written: the target with its symbolic links followed.
+  [[nodiscard]] const std::string& resolved_path() const noexcept { return target_; }
+  // True when the target is not a regular file and is written in place.
+  [[nodiscard]] bool direct() const noexcept { return direct_; }
 
  private:
+  void register_temporary() noexcept {
+    if (temporary_.size() >= sizeof pending_temporary_path) return;
+    pending_temporary_set = 0;
+    std::memcpy(pending_temporary_path, temporary_.c_str(), temporary_.size() + 1);
+    pending_temporary_set = 1;
+    registered_ = true;
+  }
+  void unregister_temporary() noexcept {
+    if (registered_) pending_temporary_set = 0;
+    registered_ = false;
+  }
+  void remove_temporary() noexcept {
+    if (temporary_.empty()) return;
+    ::unlink(temporary_.c_str());
+    unregister_temporary();  // after: a signal in between finds nothing to remove
+    temporary_.clear();
+  }
+
   std::string target_;
   std::string temporary_;
+  bool direct_ = false;
+  bool keep_ = false;  // an existing regular file: keep its mode and owner
+  ::mode_t mode_ = 0;
+  ::uid_t owner_ = 0;
+  ::gid_t group_ = 0;
   bool committed_ = false;
+  bool registered_ = false;
 };
 
 // Hands the bytes to a thread of its own that writes them to `out`, so that
