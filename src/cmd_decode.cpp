@@ -95,13 +95,13 @@ int run_decode(const decode_request& r) {
   }
   if (m.soft_constraints() != 0)
     out_printf("soft cost %s (%llu of %zu soft constraints not satisfied)\n", to_string(soft_cost).c_str(),
-                static_cast<unsigned long long>(soft_violated), m.soft_constraints());
+               static_cast<unsigned long long>(soft_violated), m.soft_constraints());
   if (hard_violated == 0) {
     out_printf("all %zu constraints hold\n", m.hard_constraints());
     return exit_success;
   }
   out_printf("%llu of %zu constraints violated\n", static_cast<unsigned long long>(hard_violated),
-              m.hard_constraints());
+             m.hard_constraints());
   return exit_negative;
 }
 

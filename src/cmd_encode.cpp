@@ -252,7 +252,8 @@ void register_encode(CLI::App& app, command_context& context) {
                 "Write comment lines: the variable map (name and number), and per constraint its method and size");
   cmd->add_flag("--full-equivalence", r->full_equivalence,
                 "Define auxiliary variables in both directions (default: only the direction needed)");
-  cmd->add_option("--budget", r->budget, "Clause budget of each dry run when the policy measures methods (1 to 10^15)")->check(budget_check());
+  cmd->add_option("--budget", r->budget, "Clause budget of each dry run when the policy measures methods (1 to 10^15)")
+      ->check(budget_check());
   cmd->add_flag("--progress", r->progress, "Show the progress line on standard error even when it is not a terminal");
   cmd->add_flag("--no-progress", r->no_progress, "Never show the progress line");
   cmd->callback([&context, r] { context.exit_code = run_encode(*r); });

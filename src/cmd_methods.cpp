@@ -38,8 +38,8 @@ int run_methods(bool as_json) {
   for (const auto& m : method_table) {
     std::string applies;
     for (const auto& a : applies_names(m)) applies += (applies.empty() ? "" : ", ") + a;
-    out_printf("%-26s %-36s %-15s %s\n", std::string(m.name).c_str(), applies.c_str(),
-                m.arc_consistent ? "yes" : "no", std::string(m.source).c_str());
+    out_printf("%-26s %-36s %-15s %s\n", std::string(m.name).c_str(), applies.c_str(), m.arc_consistent ? "yes" : "no",
+               std::string(m.source).c_str());
   }
   return exit_success;
 }

@@ -297,10 +297,14 @@ int run_solve(const solve_request& r) {
     out_text(block);
   }
   switch (result.status) {
-    case optimize_status::unsatisfiable: return exit_negative;
-    case optimize_status::unknown: return exit_unknown;
-    case optimize_status::satisfiable: return optimising ? exit_not_proved_optimal : exit_success;
-    case optimize_status::optimal: break;
+    case optimize_status::unsatisfiable:
+      return exit_negative;
+    case optimize_status::unknown:
+      return exit_unknown;
+    case optimize_status::satisfiable:
+      return optimising ? exit_not_proved_optimal : exit_success;
+    case optimize_status::optimal:
+      break;
   }
   return exit_success;
 }

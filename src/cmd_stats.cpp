@@ -271,14 +271,15 @@ class stats_collector final : public model_handler {
             cell = mr.over_budget ? "over" : std::to_string(mr.size.clauses) + "/" + std::to_string(mr.size.variables);
         out_printf(" %*s", column_width(id), cell.c_str());
       }
-      out_printf("  %s\n", !row.picked ? "(over budget)"
-                             : row.trivial ? "(any)"
-                                           : std::string(info(*row.picked).name).c_str());
+      out_printf("  %s\n", !row.picked   ? "(over budget)"
+                           : row.trivial ? "(any)"
+                                         : std::string(info(*row.picked).name).c_str());
     }
-    out_printf("\ntotals (constraints only; products add %llu clauses and %llu variables, the objective %llu soft "
-                "clauses in WCNF)\n",
-                static_cast<unsigned long long>(product_clauses_), static_cast<unsigned long long>(products_),
-                static_cast<unsigned long long>(objective_units_));
+    out_printf(
+        "\ntotals (constraints only; products add %llu clauses and %llu variables, the objective %llu soft "
+        "clauses in WCNF)\n",
+        static_cast<unsigned long long>(product_clauses_), static_cast<unsigned long long>(products_),
+        static_cast<unsigned long long>(objective_units_));
     out_printf("  %-28s %14s %14s %16s\n", "", "clauses", "aux variables", "literals");
     print_total("picked", picked_);
     for (const auto& m : method_table) print_total(std::string("all ") + std::string(m.name), by_method_.at(m.id));
@@ -318,8 +319,8 @@ class stats_collector final : public model_handler {
   }
   void print_total(const std::string& label, const total& t) const {
     out_printf("  %-28s %14llu %14llu %16llu%s\n", label.c_str(), static_cast<unsigned long long>(t.clauses),
-                static_cast<unsigned long long>(t.vars), static_cast<unsigned long long>(t.literals),
-                t.over_budget ? "  (over budget)" : "");
+               static_cast<unsigned long long>(t.vars), static_cast<unsigned long long>(t.literals),
+               t.over_budget ? "  (over budget)" : "");
   }
   [[nodiscard]] static int column_width(method_id id) {
     return std::max<int>(12, static_cast<int>(info(id).name.size()));
@@ -370,7 +371,8 @@ void register_stats(CLI::App& app, command_context& context) {
   // One name per --method: a vector option would otherwise swallow MODEL too.
   cmd->add_option("--method", r->methods, "As for encode: the methods to use where they apply (repeatable)")
       ->allow_extra_args(false);
-  cmd->add_option("--budget", r->budget, "Clause budget of each dry run (1 to 10^15, default 50000000)")->check(budget_check());
+  cmd->add_option("--budget", r->budget, "Clause budget of each dry run (1 to 10^15, default 50000000)")
+      ->check(budget_check());
   cmd->add_flag("--full-equivalence", r->full_equivalence, "Measure with auxiliary variables defined both ways");
   cmd->callback([&context, r] { context.exit_code = run_stats(*r); });
 }

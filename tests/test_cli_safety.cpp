@@ -18,8 +18,8 @@
 #include <unistd.h>
 
 #include <cadical.hpp>
-#include <chrono>
 #include <cerrno>
+#include <chrono>
 #include <cstdint>
 #include <cstdio>
 #include <cstdlib>
@@ -41,8 +41,8 @@ namespace {
 const std::string tool = CLAUSEWRIGHT_TOOL_PATH;
 
 struct run_result {
-  int code = -1;    // exit status, -1 when killed by a signal
-  int signal = 0;   // the signal that ended it
+  int code = -1;   // exit status, -1 when killed by a signal
+  int signal = 0;  // the signal that ended it
   std::string out;
   std::string err;
 };
@@ -210,7 +210,9 @@ generated_model generate(std::uint32_t seed, int variables) {
     const std::int64_t l = left_side(c, hidden);
     const int kind = static_cast<int>(rng() % 3);
     c.relation = kind == 0 ? "<=" : kind == 1 ? ">=" : "=";
-    c.bound = kind == 0 ? l + static_cast<std::int64_t>(rng() % 2) : kind == 1 ? l - static_cast<std::int64_t>(rng() % 2) : l;
+    c.bound = kind == 0   ? l + static_cast<std::int64_t>(rng() % 2)
+              : kind == 1 ? l - static_cast<std::int64_t>(rng() % 2)
+                          : l;
     m.constraints.push_back(c);
   }
   m.opb = "* #variable= " + std::to_string(variables) + " #constraint= " + std::to_string(m.constraints.size()) + "\n";
@@ -366,8 +368,8 @@ TEST_F(safety, DecodeTellsTheTwoFormsApartOnTheWholeAnswer) {
 
 TEST_F(safety, DecodeOfAnUnknownAnswerExitsThree) {
   const fs::path model = write("m.opb", "* #variable= 2 #constraint= 1\n+1 x1 +1 x2 >= 1 ;\n");
-  for (const std::string& answer : {std::string("s UNKNOWN\n"), std::string("s UNKNOWN\nv 1 -2 0\n"),
-                                    std::string("s UNKNOWN\nv -1 -2 0\n")}) {
+  for (const std::string& answer :
+       {std::string("s UNKNOWN\n"), std::string("s UNKNOWN\nv 1 -2 0\n"), std::string("s UNKNOWN\nv -1 -2 0\n")}) {
     SCOPED_TRACE(answer);
     const fs::path a = write("a.txt", answer);
     const run_result r = run("decode " + quote(model.string()) + " " + quote(a.string()));
@@ -480,8 +482,9 @@ TEST_F(safety, FullStandardOutputIsAnError) {
   const fs::path model = write("m.opb", small_model);
   const fs::path answer = write("a.txt", "s SATISFIABLE\nv 1 -2 -3 0\n");
   const std::string m = quote(model.string());
-  std::vector<std::string> commands{"stats " + m,   "stats " + m + " --json", "methods", "methods --json",
-                                    "decode " + m + " " + quote(answer.string()), "encode " + m};
+  std::vector<std::string> commands{
+      "stats " + m, "stats " + m + " --json", "methods", "methods --json", "decode " + m + " " + quote(answer.string()),
+      "encode " + m};
 #ifdef CLAUSEWRIGHT_TOOL_HAS_SOLVE
   commands.push_back("solve " + m);
   commands.push_back("solve " + m + " --json");
@@ -567,18 +570,21 @@ TEST_F(safety, BudgetMustBeAPositiveIntegerWithinTheMaximum) {
 TEST_F(safety, RepeatedJsonKeysAreRejectedWhereTheSecondIs) {
   struct sample {
     std::string text;
-    std::string at;   // file:line:column of the second key
+    std::string at;  // file:line:column of the second key
     std::string key;
   };
   const std::vector<sample> samples{
-      {"{\"constraints\": [],\n \"constraints\": [{\"type\": \"clause\", \"literals\": [\"a\"]}]}", "2:2", "constraints"},
-      {"{\"constraints\": [{\"type\": \"at-most\", \"literals\": [\"a\", \"b\"], \"k\": 1,\n   \"k\": 2}]}", "2:4", "k"},
-      {"{\"constraints\": [\n  {\"type\": \"at-most\", \"type\": \"at-least\", \"literals\": [\"a\"], \"k\": 1}]}", "2:23",
-       "type"},
+      {"{\"constraints\": [],\n \"constraints\": [{\"type\": \"clause\", \"literals\": [\"a\"]}]}", "2:2",
+       "constraints"},
+      {"{\"constraints\": [{\"type\": \"at-most\", \"literals\": [\"a\", \"b\"], \"k\": 1,\n   \"k\": 2}]}", "2:4",
+       "k"},
+      {"{\"constraints\": [\n  {\"type\": \"at-most\", \"type\": \"at-least\", \"literals\": [\"a\"], \"k\": 1}]}",
+       "2:23", "type"},
       // The same key spelt with an escape.
-      {"{\"constraints\": [{\"type\": \"clause\", \"literals\": [\"a\"], \"\\u0074ype\": \"clause\"}]}", "1:56", "type"},
-      {"{\"variables\": [\"a\"], \"objective\": [[1, \"a\"]], \"objective\": [[2, \"a\"]], \"constraints\": []}", "1:47",
-       "objective"},
+      {"{\"constraints\": [{\"type\": \"clause\", \"literals\": [\"a\"], \"\\u0074ype\": \"clause\"}]}", "1:56",
+       "type"},
+      {"{\"variables\": [\"a\"], \"objective\": [[1, \"a\"]], \"objective\": [[2, \"a\"]], \"constraints\": []}",
+       "1:47", "objective"},
   };
   for (const auto& s : samples) {
     SCOPED_TRACE(s.text);
@@ -623,7 +629,7 @@ TEST_F(safety, PipesAndFifosAreModelPaths) {
   ASSERT_EQ(expected.rfind("p cnf 3 3\n", 0), 0U);
   // A pipe given as a path: bash's process substitution.
   const std::string command = "bash -c " + quote(quote(tool) + " encode <(cat " + quote(model.string()) + ") >" +
-                                                quote(file("out.cnf").string()) + " 2>" + quote(file("err").string()));
+                                                 quote(file("out.cnf").string()) + " 2>" + quote(file("err").string()));
   const int status = std::system(command.c_str());
   ASSERT_TRUE(WIFEXITED(status));
   EXPECT_EQ(WEXITSTATUS(status), 0) << read_file(file("err"));
@@ -650,7 +656,8 @@ TEST_F(safety, PipesAndFifosAreModelPaths) {
 TEST_F(safety, ExitCodesAreDocumented) {
   const run_result help = run("--help");
   EXPECT_EQ(help.code, 0);
-  for (const std::string part : {"0 success", "1 a negative answer", "2 bad input", "3 no answer", "4 a solution not proved optimal"})
+  for (const std::string part :
+       {"0 success", "1 a negative answer", "2 bad input", "3 no answer", "4 a solution not proved optimal"})
     EXPECT_TRUE(contains(help.out, part)) << part << "\n" << help.out;
   EXPECT_TRUE(contains(run("decode --help").out, "3 the answer is UNKNOWN"));
 }

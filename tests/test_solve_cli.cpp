@@ -195,8 +195,8 @@ class solve_cli : public ::testing::Test {
     // Exit codes (src/commands.hpp): 1 unsatisfiable, 3 unknown, 4 a solution
     // of an optimisation not proved optimal (it has a lower bound), else 0.
     const bool optimising = j.contains("lower_bound") && !j["lower_bound"].is_null();
-    const int expected = status == "unsatisfiable" ? 1
-                         : status == "unknown"     ? 3
+    const int expected = status == "unsatisfiable"               ? 1
+                         : status == "unknown"                   ? 3
                          : status == "satisfiable" && optimising ? 4
                                                                  : 0;
     EXPECT_EQ(r.code, expected) << "exit code for " << status;

@@ -155,8 +155,7 @@ inline void remove_pending_temporary() noexcept {
 // remove_pending_temporary().
 class atomic_file_output final : public fd_output {
  public:
-  explicit atomic_file_output(const std::string& target)
-      : fd_output(-1, target), target_(resolve_output_path(target)) {
+  explicit atomic_file_output(const std::string& target) : fd_output(-1, target), target_(resolve_output_path(target)) {
     struct stat st {};
     const bool exists = ::stat(target_.c_str(), &st) == 0;
     if (exists && !S_ISREG(st.st_mode)) {
