@@ -65,10 +65,14 @@ std::string fmt_double(double v, int precision) {
 // Three significant digits with k, M, G.
 std::string fmt_compact(double v) {
   const double a = std::fabs(v);
+  // Three significant digits, trailing zeros dropped (1M, not 1.00M).
   const auto three = [](double x) {
-    if (x >= 100) return fmt_double(x, 0);
-    if (x >= 10) return fmt_double(x, 1);
-    return fmt_double(x, 2);
+    std::string t = fmt_double(x, x >= 100 ? 0 : (x >= 10 ? 1 : 2));
+    if (t.find('.') != std::string::npos) {
+      while (t.back() == '0') t.pop_back();
+      if (t.back() == '.') t.pop_back();
+    }
+    return t;
   };
   if (a < 1000) {
     if (a == std::floor(a)) return fmt_double(v, 0);
@@ -359,7 +363,9 @@ std::string groups_chart(const json& data) {
   const double gap = 26;
   const double slot =
       std::min(34.0, (right - left - gap * static_cast<double>(shown.size() + 1)) / static_cast<double>(std::max<std::size_t>(bars, 1)));
-  double x = left + gap;
+  // Centred when the bars do not fill the width.
+  const double used = slot * static_cast<double>(bars) + gap * static_cast<double>(shown.size() - 1);
+  double x = left + std::max(gap, (right - left - used) / 2);
   for (const json* gp : shown) {
     const json& g = *gp;
     const std::vector<std::string> picks = picks_of(g);
@@ -436,7 +442,9 @@ std::string growth_chart(const json& curve, int metric, const std::string& title
     if (s["cut_at"].is_number()) see_x(s["cut_at"].get<double>());
     if (!positive && !s["points"].empty() && metric == 2) without.push_back(s["method"].get<std::string>());
   }
-  if (metric == 1) yhi = std::max(yhi, budget);
+  bool cut = false;
+  for (const json& s : curve["series"]) cut = cut || s["cut_at"].is_number();
+  if (metric == 1 && cut) yhi = std::max(yhi, budget);
   std::string out = svg_open(width, height, title);
   text(out, left, 18, title, "class=\"chart-title\"");
   if (xhi <= 0 || yhi <= 0) {
@@ -456,7 +464,7 @@ std::string growth_chart(const json& curve, int metric, const std::string& title
   const double own = sx(curve["own"].get<double>());
   line(out, own, top, own, bottom, text_color, "stroke-dasharray=\"5 4\"");
   text(out, own + 4, top + 10, "this model", "class=\"note-text\"");
-  if (metric == 1) {
+  if (metric == 1 && cut) {
     const double by = sy(budget);
     line(out, left, by, right, by, "#c62828", "stroke-dasharray=\"2 3\"");
     text(out, right - 4, by - 5, "curve budget " + fmt_compact(budget), "class=\"note-text budget\" text-anchor=\"end\"");
@@ -481,12 +489,13 @@ std::string growth_chart(const json& curve, int metric, const std::string& title
     out += "<g data-method=\"" + html_escape(name) + "\"><title>" + html_escape(name) + "</title>";
     if (!path.empty())
       out += "<path d=\"" + path + "\" fill=\"none\" stroke=\"" + color + "\" stroke-width=\"2\"/>" + dots;
-    if (s["cut_at"].is_number() && last_x >= 0) {
+    if (s["cut_at"].is_number()) {
       // The run at cut_at passed the budget: a dashed step to the budget
-      // line (clauses) or up to the top (variables), ended by a cross.
+      // line (clauses) or up to the top (variables), ended by a cross; only
+      // the cross when the first run passed it.
       const double cx = sx(s["cut_at"].get<double>());
       const double cy = metric == 1 ? sy(budget) : top;
-      line(out, last_x, last_y, cx, cy, color, "stroke-width=\"1.5\" stroke-dasharray=\"3 3\"");
+      if (last_x >= 0) line(out, last_x, last_y, cx, cy, color, "stroke-width=\"1.5\" stroke-dasharray=\"3 3\"");
       out += "<path d=\"M" + num(cx - 4) + " " + num(cy - 4) + " L" + num(cx + 4) + " " + num(cy + 4) + " M" +
              num(cx - 4) + " " + num(cy + 4) + " L" + num(cx + 4) + " " + num(cy - 4) + "\" stroke=\"" + color +
              "\" stroke-width=\"2\"/>";
@@ -541,7 +550,7 @@ std::string groups_table(const json& data) {
     out += "<th class=\"method\" data-method=\"" + html_escape(name) + "\"><i style=\"background:" + color_of(name) +
            "\"></i>" + html_escape(name) + "</th>";
   }
-  out += "<th>pick</th></tr></thead><tbody>";
+  out += "<th>pick</th><th class=\"num\">group total<br><small>clauses / vars</small></th></tr></thead><tbody>";
   for (const json& g : data["groups"]) {
     const std::vector<std::string> picks = picks_of(g);
     out += "<tr data-group=\"" + std::to_string(u64(g["id"])) + "\" data-count=\"" + std::to_string(u64(g["count"])) +
@@ -602,7 +611,9 @@ std::string groups_table(const json& data) {
       if (u64(g["unpicked"]) != 0) pick += (pick.empty() ? "" : ", ") + std::string("over budget \xc3\x97") +
                                            std::to_string(u64(g["unpicked"]));
     }
-    out += "<td class=\"pick-name\">" + html_escape(pick) + "</td></tr>";
+    out += "<td class=\"pick-name\">" + html_escape(pick) + "</td><td class=\"num\">" +
+           fmt_int(u64(g["picked_clauses"])) + "<span class=\"vars\">" + fmt_int(u64(g["picked_vars"])) +
+           "</span></td></tr>";
   }
   out += "</tbody></table></div>";
   if (u64(data["groups_omitted"]) != 0)
@@ -651,7 +662,7 @@ table.groups th.method i{margin-bottom:4px}
 table.groups td{border-bottom:1px solid var(--line);padding:4px 5px;vertical-align:top}
 table.groups td.num{text-align:right;white-space:nowrap}
 table.groups td.cell{text-align:right;white-space:nowrap}
-table.groups td.cell .vars{display:block;color:var(--muted);font-size:10.5px}
+table.groups td .vars{display:block;color:var(--muted);font-size:10.5px}
 table.groups td.pick{background:#fff4cc;font-weight:700;box-shadow:inset 3px 0 0 var(--c)}
 table.groups td.na{color:#b0bec5;text-align:center}
 table.groups td.pick-name{font-weight:600;white-space:nowrap}
