@@ -10,6 +10,8 @@ packages=(
   clang-tidy
   # libraries found with find_package
   libcadical-dev nlohmann-json3-dev libcli11-dev libboost-dev libgtest-dev libgmock-dev libbenchmark-dev
+  # test_report: the report page in a headless browser, its screenshot decoded with zlib
+  chromium zlib1g-dev
 )
 missing=()
 for p in "${packages[@]}"; do

@@ -19,6 +19,7 @@
 
 #include "commands.hpp"
 #include "model_file.hpp"
+#include "stats_data.hpp"
 
 namespace clausewright::tool {
 
@@ -358,6 +359,12 @@ int run_stats(const stats_request& r) {
 }
 
 }  // namespace
+
+nlohmann::ordered_json stats_document(model_stream& in, const model_encoding_settings& settings) {
+  stats_collector stats(settings);
+  in.run(stats);
+  return stats.to_json(stats_request{});
+}
 
 void register_stats(CLI::App& app, command_context& context) {
   auto* cmd = app.add_subcommand("stats",

@@ -49,6 +49,7 @@ void register_encode(CLI::App& app, command_context& context);
 void register_methods(CLI::App& app, command_context& context);
 void register_decode(CLI::App& app, command_context& context);
 void register_stats(CLI::App& app, command_context& context);
+void register_report(CLI::App& app, command_context& context);
 // In cmd_solve.cpp when it exists (the build defines CLAUSEWRIGHT_TOOL_HAS_SOLVE).
 void register_solve(CLI::App& app, command_context& context);
 // A reserved name: the command says it is not available and exits 2.

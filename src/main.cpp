@@ -52,6 +52,7 @@ int main(int argc, char** argv) {
   cwt::register_decode(app, context);
   cwt::register_stats(app, context);
   cwt::register_methods(app, context);
+  cwt::register_report(app, context);
 #ifdef CLAUSEWRIGHT_TOOL_HAS_SOLVE
   cwt::register_solve(app, context);
 #else
