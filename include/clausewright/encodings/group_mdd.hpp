@@ -1,0 +1,337 @@
+// Group MDD: the reduced ordered multi-valued decision diagram of a weighted
+// sum over at-most-one groups, after Bofill, Coll, Suy, Villaret 2017, "Compact
+// MDDs for pseudo-Boolean constraints with at-most-one relations in resource-
+// constrained scheduling problems" (IJCAI), extended in Artificial
+// Intelligence Review 2020. Built with the interval method of Abío,
+// Nieuwenhuis, Oliveras, Rodríguez-Carbonell, Mayer-Eichberger 2012 (JAIR),
+// as encodings/bdd.hpp builds the BDD.
+//
+// One layer per group (groups ordered by decreasing largest coefficient, ties
+// in the given order). A node at layer g for bound K stands for
+//     sum_{h>=g} v_h <= K,   v_h = the coefficient of group h's true literal, or 0;
+// it has one edge per distinct coefficient d of its group (taken by every
+// literal with that coefficient, to the node for K - d) and one edge "none"
+// (to the node for K). The bounds that give the same function form an
+// interval [beta, gamma]: beta is the largest and gamma the smallest of
+// child.beta + d (child.gamma + d) over the edges, d = 0 for "none"; a later
+// bound inside a kept interval reuses the node. A node whose edges all lead to
+// one child is that child. Size: at a layer, distinct nodes have disjoint
+// intervals, each holding a bound in 0..K, so at most groups * (K+1) nodes
+// (Bofill et al. 2017 state the same bound); each node has one auxiliary
+// variable.
+//
+// Clauses per node v with "none" child c0 and child c_x for literal x
+// (clauses with a terminal child simplified, as in bdd.hpp):
+//   upper side (v -> its function):   ~v | c0;   ~v | ~x | c_x   (c_x != c0);
+//      (valid because every c_x implies c0: a heavier sum leaves less room);
+//   lower side (~v -> not its function):  v | ~x | ~c_x   (every x), and for
+//      each edge of coefficient d (and "none", d = 0):
+//          v | ~c_d | (the x of coefficient above d with c_x != c_d):
+//      when no heavier literal is chosen, the group adds at most d, so c_d
+//      makes v true. For the largest d this is v | ~c_max, the analogue of
+//      the BDD's v | ~high | ~low; for "none" it lists the group's literals.
+//      These let unit propagation read the bound off the literals still free
+//      (without them >= is not arc-consistent, as the harness found); with d
+//      distinct coefficients a node has d+1 of them, O(d^2) literals.
+// The clauses are correct only together with the at-most-one constraints of
+// the groups: two true literals of one group are counted once.
+//
+// Literals of a group with one coefficient first share one fresh literal
+// (detail::merge_equal_coefficients, defined in the sides built): the edge
+// clauses are then per distinct coefficient, not per literal.
+//
+// Relations: <= asserts the root for K with the upper side; >= asserts the
+// negation of the root for K-1 with the lower side; = asserts both (one
+// diagram holds both roots, sharing nodes); full_equivalence builds both sides
+// at every node, so each node literal is equivalent to its function.
+// Propagation (with the groups' at-most-one clauses, pairwise, when the
+// at-most-one sets are exactly the groups): arc-consistent for <= and >=, as
+// the harness measures in tests/test_groups.cpp (the interval BDD is for <=
+// and >=, Abío et al. 2012); for = not in general (subset sum), measured.
+#pragma once
+
+#include <algorithm>
+#include <cstdint>
+#include <functional>
+#include <limits>
+#include <map>
+#include <memory_resource>
+#include <numeric>
+#include <optional>
+#include <span>
+#include <string>
+#include <vector>
+
+#include "../groups.hpp"
+#include "bdd.hpp"
+#include "common.hpp"
+
+namespace clausewright {
+
+// Upper bound on the nodes of the group MDD for a "<=" row (Bofill et al.
+// 2017): groups * (bound + 1). Every node adds one variable.
+[[nodiscard]] inline std::uint64_t group_mdd_node_bound(const grouped_constraint& c) noexcept {
+  if (c.bound < 0) return 0;
+  return static_cast<std::uint64_t>(c.groups.size()) * (static_cast<std::uint64_t>(c.bound) + 1);
+}
+
+// Builds the diagram over the groups of a row; root(K) builds what is missing
+// for bound K and returns the root (a bdd_ref: a node or a terminal).
+template <class Sink>
+class group_mdd_builder {
+ public:
+  group_mdd_builder(Sink& out, variable_pool& pool, const std::vector<std::vector<term>>& groups, sides which,
+                    std::uint64_t node_budget = default_bdd_node_budget, error_position where = {})
+      : out_(out), pool_(pool), which_(which), budget_(node_budget), where_(std::move(where)) {
+    std::vector<std::size_t> order(groups.size());
+    std::iota(order.begin(), order.end(), std::size_t{0});
+    std::stable_sort(order.begin(), order.end(), [&](std::size_t a, std::size_t b) {
+      return grouped_constraint::group_maximum(groups[a]) > grouped_constraint::group_maximum(groups[b]);
+    });
+    if (groups.size() >= std::numeric_limits<std::uint32_t>::max())
+      throw error(error_id::over_budget, "too many groups for one MDD", where_);
+    for (const std::size_t g : order) {
+      layer l;
+      l.first_edge = edge_weight_.size();
+      l.first_literal = literal_.size();
+      std::vector<std::int64_t> distinct;
+      for (const term& t : groups[g]) {
+        if (t.coefficient <= 0)
+          throw error(error_id::usage, "the group MDD takes positive coefficients (a normalised row)", where_);
+        distinct.push_back(t.coefficient);
+      }
+      std::sort(distinct.begin(), distinct.end(), std::greater<>());
+      distinct.erase(std::unique(distinct.begin(), distinct.end()), distinct.end());
+      for (const std::int64_t d : distinct) edge_weight_.push_back(d);
+      l.edges = distinct.size();
+      for (const term& t : groups[g]) {
+        literal_.push_back(t.lit);
+        const auto at = std::find(distinct.begin(), distinct.end(), t.coefficient) - distinct.begin();
+        literal_edge_.push_back(static_cast<std::uint32_t>(at));
+      }
+      l.literals = groups[g].size();
+      layers_.push_back(l);
+    }
+    rest_.assign(layers_.size() + 1, 0);
+    for (std::size_t i = layers_.size(); i-- > 0;)
+      rest_[i] =
+          detail::checked_add(rest_[i + 1], edge_weight_[layers_[i].first_edge], where_, "the sum of the group maxima");
+    memo_.reserve(layers_.size());
+    for (std::size_t i = 0; i < layers_.size(); ++i) memo_.emplace_back(&arena_);
+  }
+
+  bdd_ref root(std::int64_t bound) { return build(bound).ref; }
+
+  [[nodiscard]] literal literal_of(bdd_ref r) const {
+    CLAUSEWRIGHT_ASSERT(r.is_node(), "terminals have no literal");
+    return variables_[static_cast<std::size_t>(r.node)];
+  }
+  // Nodes made (each one auxiliary variable).
+  [[nodiscard]] std::size_t node_count() const noexcept { return variables_.size(); }
+  [[nodiscard]] std::size_t layer_count() const noexcept { return layers_.size(); }
+
+ private:
+  static constexpr std::int64_t minus_infinity = std::numeric_limits<std::int64_t>::min();
+  static constexpr std::int64_t plus_infinity = std::numeric_limits<std::int64_t>::max();
+
+  struct layer {
+    std::size_t first_edge = 0;     // into edge_weight_
+    std::size_t edges = 0;          // distinct coefficients, decreasing
+    std::size_t first_literal = 0;  // into literal_ / literal_edge_
+    std::size_t literals = 0;
+  };
+  struct result {
+    std::int64_t beta = 0;
+    std::int64_t gamma = 0;
+    bdd_ref ref;
+  };
+  struct memo_entry {
+    std::int64_t gamma;
+    bdd_ref ref;
+  };
+  struct frame {
+    std::uint32_t layer;
+    std::uint32_t next;  // edges resolved so far: 0 is "none", e >= 1 the edge of weight edge e-1
+    std::int64_t bound;
+    std::size_t results;  // where this frame's child results start in results_
+  };
+
+  std::optional<result> resolve(std::uint32_t level, std::int64_t k) const {
+    if (k < 0) return result{minus_infinity, -1, bdd_ref{bdd_ref::false_terminal}};
+    if (k >= rest_[level]) return result{rest_[level], plus_infinity, bdd_ref{bdd_ref::true_terminal}};
+    const auto& level_memo = memo_[level];
+    auto it = level_memo.upper_bound(k);
+    if (it == level_memo.begin()) return std::nullopt;
+    --it;
+    if (it->second.gamma >= k) return result{it->first, it->second.gamma, it->second.ref};
+    return std::nullopt;
+  }
+
+  static std::int64_t shift(std::int64_t bound, std::int64_t weight) noexcept {
+    if (bound == minus_infinity || bound == plus_infinity) return bound;
+    return bound + weight;
+  }
+
+  // children[0] is the "none" child, children[e+1] the child of edge e.
+  result combine(std::uint32_t level, std::int64_t k, std::span<const result> children) {
+    const layer& l = layers_[level];
+    result r{children[0].beta, children[0].gamma, {}};
+    bool all_same = true;
+    for (std::size_t e = 0; e < l.edges; ++e) {
+      const std::int64_t w = edge_weight_[l.first_edge + e];
+      r.beta = std::max(r.beta, shift(children[e + 1].beta, w));
+      r.gamma = std::min(r.gamma, shift(children[e + 1].gamma, w));
+      all_same = all_same && children[e + 1].ref == children[0].ref;
+    }
+    CLAUSEWRIGHT_ASSERT(r.beta <= k && k <= r.gamma, "MDD interval must contain its bound");
+    if (entries_ >= budget_)
+      throw error(error_id::over_budget,
+                  "the group MDD passed its node budget of " + std::to_string(budget_) + " nodes", where_);
+    if (all_same) {
+      r.ref = children[0].ref;
+    } else {
+      if (variables_.size() >= static_cast<std::size_t>(std::numeric_limits<std::int32_t>::max()))
+        throw error(error_id::over_budget, "too many MDD nodes", where_);
+      r.ref = bdd_ref{static_cast<std::int32_t>(variables_.size())};
+      variables_.push_back(pool_.fresh());
+      emit_node(variables_.back(), l, children);
+    }
+    memo_[level].emplace(r.beta, memo_entry{r.gamma, r.ref});
+    ++entries_;
+    return r;
+  }
+
+  result build(std::int64_t bound) {
+    if (auto r = resolve(0, bound)) return *r;
+    std::vector<frame> stack;
+    stack.reserve(layers_.size() + 1);
+    results_.clear();
+    stack.push_back(frame{0, 0, bound, 0});
+    result ret;
+    while (!stack.empty()) {
+      frame& f = stack.back();
+      const layer& l = layers_[f.layer];
+      if (f.next <= l.edges) {
+        const std::int64_t w = f.next == 0 ? 0 : edge_weight_[l.first_edge + f.next - 1];
+        const std::int64_t k = f.bound - w;
+        ++f.next;
+        if (auto r = resolve(f.layer + 1, k)) {
+          results_.push_back(*r);
+        } else {
+          const frame child{f.layer + 1, 0, k, results_.size()};
+          stack.push_back(child);
+        }
+        continue;
+      }
+      const std::size_t first = f.results;
+      const std::uint32_t level = f.layer;
+      const std::int64_t k = f.bound;
+      ret = combine(level, k, std::span<const result>(results_).subspan(first, l.edges + 1));
+      results_.resize(first);
+      stack.pop_back();
+      if (!stack.empty()) results_.push_back(ret);
+    }
+    return ret;
+  }
+
+  // Clause building with terminal children: a true part satisfies the clause,
+  // a false part drops. The scratch buffer is reused across clauses.
+  void begin() {
+    clause_.clear();
+    satisfied_ = false;
+  }
+  void add(literal l) { clause_.push_back(l); }
+  void add_child(bdd_ref r, bool positive) {
+    if (r.is_node()) {
+      const literal v = variables_[static_cast<std::size_t>(r.node)];
+      clause_.push_back(positive ? v : ~v);
+    } else if (r.is_true() == positive) {
+      satisfied_ = true;
+    }
+  }
+  void end() {
+    if (!satisfied_) out_.add_clause(std::span<const literal>(clause_));
+  }
+
+  void emit_node(literal v, const layer& l, std::span<const result> children) {
+    const bdd_ref none = children[0].ref;
+    auto child_of = [&](std::size_t i) { return children[literal_edge_[l.first_literal + i] + 1].ref; };
+    if (has_upper(which_)) {
+      begin(), add(~v), add_child(none, true), end();
+      for (std::size_t i = 0; i < l.literals; ++i) {
+        const bdd_ref c = child_of(i);
+        if (c == none) continue;
+        begin(), add(~v), add(~literal_[l.first_literal + i]), add_child(c, true), end();
+      }
+    }
+    if (has_lower(which_)) {
+      for (std::size_t i = 0; i < l.literals; ++i)
+        begin(), add(v), add(~literal_[l.first_literal + i]), add_child(child_of(i), false), end();
+      // Per edge e (and "none" last): v | ~c_e | the literals of larger
+      // coefficient whose child differs from c_e.
+      for (std::size_t e = 0; e <= l.edges; ++e) {
+        const bdd_ref target = e < l.edges ? children[e + 1].ref : none;
+        if (target.is_false()) continue;
+        begin();
+        add(v);
+        for (std::size_t i = 0; i < l.literals; ++i)
+          if (literal_edge_[l.first_literal + i] < e && child_of(i) != target) add(literal_[l.first_literal + i]);
+        add_child(target, false);
+        end();
+      }
+    }
+  }
+
+  Sink& out_;
+  variable_pool& pool_;
+  sides which_;
+  std::uint64_t budget_;
+  error_position where_;
+  std::vector<layer> layers_;
+  std::vector<std::int64_t> edge_weight_;
+  std::vector<literal> literal_;
+  std::vector<std::uint32_t> literal_edge_;
+  std::vector<std::int64_t> rest_;  // rest_[g]: sum of the largest coefficients of layers g..
+  std::pmr::monotonic_buffer_resource arena_;
+  std::vector<std::pmr::map<std::int64_t, memo_entry>> memo_;  // per layer: beta -> [beta, gamma]
+  std::vector<literal> variables_;                             // node literals
+  std::vector<result> results_;                                // child results of the open frames
+  std::vector<literal> clause_;
+  bool satisfied_ = false;
+  std::uint64_t entries_ = 0;
+};
+
+template <class Sink>
+void encode_group_mdd(Sink& out, variable_pool& pool, const grouped_constraint& c, const encode_options& options,
+                      std::uint64_t node_budget = default_bdd_node_budget) {
+  if (c.kind == constraint_kind::constant_false) {
+    out.add_clause(std::span<const literal>());
+    return;
+  }
+  if (c.kind == constraint_kind::constant_true) return;
+  const bool at_most = c.rel != relation::ge;
+  const bool at_least = c.rel != relation::le;
+  sides which = sides::both;
+  if (!options.full_equivalence && !at_least) which = sides::upper;
+  if (!options.full_equivalence && !at_most) which = sides::lower;
+  std::vector<std::vector<term>> groups;
+  groups.reserve(c.groups.size());
+  for (const auto& g : c.groups) groups.push_back(detail::merge_equal_coefficients(out, pool, g, which));
+  group_mdd_builder<Sink> builder(out, pool, groups, which, node_budget, c.where());
+  if (at_most) {
+    const bdd_ref r = builder.root(c.bound);
+    if (r.is_false())
+      out.add_clause(std::span<const literal>());
+    else if (r.is_node())
+      emit(out, builder.literal_of(r));
+  }
+  if (at_least) {
+    const bdd_ref r = builder.root(detail::checked_sub(c.bound, 1, c.where(), "the bound minus one"));
+    if (r.is_true())
+      out.add_clause(std::span<const literal>());
+    else if (r.is_node())
+      emit(out, ~builder.literal_of(r));
+  }
+}
+
+}  // namespace clausewright
