@@ -2,7 +2,7 @@
 // sum over at-most-one groups, after Bofill, Coll, Suy, Villaret 2017, "Compact
 // MDDs for pseudo-Boolean constraints with at-most-one relations in resource-
 // constrained scheduling problems" (IJCAI), extended in Artificial
-// Intelligence Review 2020. Built with the interval method of Abío,
+// Intelligence Review 2020 (titles recalled from memory). Built with the interval method of Abío,
 // Nieuwenhuis, Oliveras, Rodríguez-Carbonell, Mayer-Eichberger 2012 (JAIR),
 // as encodings/bdd.hpp builds the BDD.
 //
@@ -18,10 +18,11 @@
 // one child is that child. Size: at a layer, distinct nodes have disjoint
 // intervals, each holding a bound in 0..K, so at most groups * (K+1) nodes
 // (Bofill et al. 2017 state the same bound); each node has one auxiliary
-// variable.
+// variable, and each edge of several literals at most one more (below).
 //
 // Clauses per node v with "none" child c0 and child c_x for literal x
-// (clauses with a terminal child simplified, as in bdd.hpp):
+// (clauses with a terminal child simplified, as in bdd.hpp; x stands for the
+// literal of x's edge, see below):
 //   upper side (v -> its function):   ~v | c0;   ~v | ~x | c_x   (c_x != c0);
 //      (valid because every c_x implies c0: a heavier sum leaves less room);
 //   lower side (~v -> not its function):  v | ~x | ~c_x   (every x), and for
@@ -36,9 +37,11 @@
 // The clauses are correct only together with the at-most-one constraints of
 // the groups: two true literals of one group are counted once.
 //
-// Literals of a group with one coefficient first share one fresh literal
-// (detail::merge_equal_coefficients, defined in the sides built): the edge
-// clauses are then per distinct coefficient, not per literal.
+// An edge taken by several literals (one coefficient) has one fresh literal
+// y: x -> y for each of them, and y -> (some of them) for the lower side.
+// It is made when a node first needs it, so a group whose edges never lead
+// anywhere but where "none" does costs nothing. With edge literals, a node's
+// clauses are per distinct coefficient, not per literal.
 //
 // Relations: <= asserts the root for K with the upper side; >= asserts the
 // negation of the root for K-1 with the lower side; = asserts both (one
@@ -93,25 +96,24 @@ class group_mdd_builder {
     for (const std::size_t g : order) {
       layer l;
       l.first_edge = edge_weight_.size();
-      l.first_literal = literal_.size();
-      std::vector<std::int64_t> distinct;
-      for (const term& t : groups[g]) {
+      std::vector<term> sorted = groups[g];
+      for (const term& t : sorted)
         if (t.coefficient <= 0)
           throw error(error_id::usage, "the group MDD takes positive coefficients (a normalised row)", where_);
-        distinct.push_back(t.coefficient);
+      std::stable_sort(sorted.begin(), sorted.end(),
+                       [](const term& a, const term& b) { return a.coefficient > b.coefficient; });
+      for (std::size_t i = 0; i < sorted.size(); ++i) {
+        if (i == 0 || sorted[i].coefficient != sorted[i - 1].coefficient) {
+          edge_weight_.push_back(sorted[i].coefficient);
+          edge_first_.push_back(inputs_.size());
+          edge_literal_.push_back(literal());
+          ++l.edges;
+        }
+        inputs_.push_back(sorted[i].lit);
       }
-      std::sort(distinct.begin(), distinct.end(), std::greater<>());
-      distinct.erase(std::unique(distinct.begin(), distinct.end()), distinct.end());
-      for (const std::int64_t d : distinct) edge_weight_.push_back(d);
-      l.edges = distinct.size();
-      for (const term& t : groups[g]) {
-        literal_.push_back(t.lit);
-        const auto at = std::find(distinct.begin(), distinct.end(), t.coefficient) - distinct.begin();
-        literal_edge_.push_back(static_cast<std::uint32_t>(at));
-      }
-      l.literals = groups[g].size();
       layers_.push_back(l);
     }
+    edge_first_.push_back(inputs_.size());
     rest_.assign(layers_.size() + 1, 0);
     for (std::size_t i = layers_.size(); i-- > 0;)
       rest_[i] =
@@ -135,10 +137,8 @@ class group_mdd_builder {
   static constexpr std::int64_t plus_infinity = std::numeric_limits<std::int64_t>::max();
 
   struct layer {
-    std::size_t first_edge = 0;     // into edge_weight_
-    std::size_t edges = 0;          // distinct coefficients, decreasing
-    std::size_t first_literal = 0;  // into literal_ / literal_edge_
-    std::size_t literals = 0;
+    std::size_t first_edge = 0;  // into edge_weight_, edge_first_, edge_literal_
+    std::size_t edges = 0;       // distinct coefficients, decreasing
   };
   struct result {
     std::int64_t beta = 0;
@@ -253,29 +253,56 @@ class group_mdd_builder {
     if (!satisfied_) out_.add_clause(std::span<const literal>(clause_));
   }
 
+  // The literal of edge e (global index): the group's literal when only one
+  // has that coefficient, else one fresh literal for all of them, made when a
+  // node first needs it (x -> y always; y -> some x for the lower side).
+  literal edge_literal(std::size_t e) {
+    const std::size_t first = edge_first_[e];
+    const std::size_t last = edge_first_[e + 1];
+    if (last - first == 1) return inputs_[first];
+    if (!edge_literal_[e].valid()) {
+      const literal y = pool_.fresh();
+      edge_literal_[e] = y;
+      for (std::size_t i = first; i < last; ++i) emit(out_, ~inputs_[i], y);
+      if (has_lower(which_)) {
+        begin();
+        add(~y);
+        for (std::size_t i = first; i < last; ++i) add(inputs_[i]);
+        end();
+      }
+    }
+    return edge_literal_[e];
+  }
+
   void emit_node(literal v, const layer& l, std::span<const result> children) {
     const bdd_ref none = children[0].ref;
-    auto child_of = [&](std::size_t i) { return children[literal_edge_[l.first_literal + i] + 1].ref; };
+    auto child = [&](std::size_t e) { return children[e + 1].ref; };  // e local to the layer
+    auto edge = [&](std::size_t e) { return edge_literal(l.first_edge + e); };
     if (has_upper(which_)) {
       begin(), add(~v), add_child(none, true), end();
-      for (std::size_t i = 0; i < l.literals; ++i) {
-        const bdd_ref c = child_of(i);
-        if (c == none) continue;
-        begin(), add(~v), add(~literal_[l.first_literal + i]), add_child(c, true), end();
+      for (std::size_t e = 0; e < l.edges; ++e) {
+        if (child(e) == none) continue;
+        const literal y = edge(e);
+        begin(), add(~v), add(~y), add_child(child(e), true), end();
       }
     }
     if (has_lower(which_)) {
-      for (std::size_t i = 0; i < l.literals; ++i)
-        begin(), add(v), add(~literal_[l.first_literal + i]), add_child(child_of(i), false), end();
-      // Per edge e (and "none" last): v | ~c_e | the literals of larger
+      for (std::size_t e = 0; e < l.edges; ++e) {
+        if (child(e).is_false()) continue;
+        const literal y = edge(e);
+        begin(), add(v), add(~y), add_child(child(e), false), end();
+      }
+      // Per edge e (and "none" last): v | ~c_e | the edges of larger
       // coefficient whose child differs from c_e.
       for (std::size_t e = 0; e <= l.edges; ++e) {
-        const bdd_ref target = e < l.edges ? children[e + 1].ref : none;
+        const bdd_ref target = e < l.edges ? child(e) : none;
         if (target.is_false()) continue;
+        for (std::size_t f = 0; f < e; ++f)
+          if (child(f) != target) (void)edge(f);  // made before the clause is assembled
         begin();
         add(v);
-        for (std::size_t i = 0; i < l.literals; ++i)
-          if (literal_edge_[l.first_literal + i] < e && child_of(i) != target) add(literal_[l.first_literal + i]);
+        for (std::size_t f = 0; f < e; ++f)
+          if (child(f) != target) add(edge(f));
         add_child(target, false);
         end();
       }
@@ -289,9 +316,10 @@ class group_mdd_builder {
   error_position where_;
   std::vector<layer> layers_;
   std::vector<std::int64_t> edge_weight_;
-  std::vector<literal> literal_;
-  std::vector<std::uint32_t> literal_edge_;
-  std::vector<std::int64_t> rest_;  // rest_[g]: sum of the largest coefficients of layers g..
+  std::vector<literal> inputs_;          // the groups' literals, by layer and edge
+  std::vector<std::size_t> edge_first_;  // edge e's literals: inputs_[edge_first_[e] .. edge_first_[e+1])
+  std::vector<literal> edge_literal_;    // edge e's shared literal, once made
+  std::vector<std::int64_t> rest_;       // rest_[g]: sum of the largest coefficients of layers g..
   std::pmr::monotonic_buffer_resource arena_;
   std::vector<std::pmr::map<std::int64_t, memo_entry>> memo_;  // per layer: beta -> [beta, gamma]
   std::vector<literal> variables_;                             // node literals
@@ -314,10 +342,7 @@ void encode_group_mdd(Sink& out, variable_pool& pool, const grouped_constraint& 
   sides which = sides::both;
   if (!options.full_equivalence && !at_least) which = sides::upper;
   if (!options.full_equivalence && !at_most) which = sides::lower;
-  std::vector<std::vector<term>> groups;
-  groups.reserve(c.groups.size());
-  for (const auto& g : c.groups) groups.push_back(detail::merge_equal_coefficients(out, pool, g, which));
-  group_mdd_builder<Sink> builder(out, pool, groups, which, node_budget, c.where());
+  group_mdd_builder<Sink> builder(out, pool, c.groups, which, node_budget, c.where());
   if (at_most) {
     const bdd_ref r = builder.root(c.bound);
     if (r.is_false())
