@@ -46,8 +46,9 @@ namespace {
 namespace cw = clausewright;
 using cw_test::propagator;
 
-enum class group_method : std::uint8_t { mdd, totalizer, weight_counter };
-constexpr std::array all_methods{group_method::mdd, group_method::totalizer, group_method::weight_counter};
+enum class group_method : std::uint8_t { mdd, totalizer, reduced_totalizer, weight_counter };
+constexpr std::array all_methods{group_method::mdd, group_method::totalizer, group_method::reduced_totalizer,
+                                 group_method::weight_counter};
 
 const char* name(group_method m) {
   switch (m) {
@@ -55,6 +56,8 @@ const char* name(group_method m) {
       return "group-mdd";
     case group_method::totalizer:
       return "group-generalized-totalizer";
+    case group_method::reduced_totalizer:
+      return "group-reduced-generalized-totalizer";
     case group_method::weight_counter:
       return "group-sequential-weight-counter";
   }
@@ -70,6 +73,9 @@ void encode_group(group_method m, Sink& out, cw::variable_pool& pool, const cw::
       return;
     case group_method::totalizer:
       cw::encode_group_generalized_totalizer(out, pool, c, options);
+      return;
+    case group_method::reduced_totalizer:
+      cw::encode_group_reduced_generalized_totalizer(out, pool, c, options);
       return;
     case group_method::weight_counter:
       cw::encode_group_sequential_weight_counter(out, pool, c, options);
@@ -428,7 +434,7 @@ TEST(GroupEncodings, FullEquivalenceOnlyWhereBuilt) {
   m.amos = {{cw::lit(1), cw::lit(2), cw::lit(3)}};
   m.row = {{2, cw::lit(1)}, {3, cw::lit(2)}, {1, cw::lit(3)}};
   m.bound = 2;
-  for (const auto method : {group_method::totalizer, group_method::weight_counter}) {
+  for (const auto method : {group_method::totalizer, group_method::reduced_totalizer, group_method::weight_counter}) {
     try {
       (void)encode_model(m, method, cw::encode_options{true});
       ADD_FAILURE() << name(method) << " accepted full equivalence";
