@@ -5,10 +5,10 @@
 //
 // Families (fixed seeds, generated here):
 //   scheduling   time-indexed: J jobs of duration 1..6 (two instances: 3..10)
-//                and demand 1..5 per
-//                resource, start literals s(j,t) for t = 0..H-d_j, exactly one
-//                start per job; for each resource and time step tau, the row
-//                sum over jobs running at tau of demand * s(j,t) <= capacity.
+//                and demand 1..5 per resource, start literals s(j,t) for
+//                t = 0..H-d_j, exactly one start per job; for each resource
+//                and time step tau, the row sum over jobs running at tau of
+//                demand * s(j,t) <= capacity.
 //   multimode    the same with 2 or 3 modes per job (duration and demand
 //                traded off); one exactly-one over all (mode, start) pairs of
 //                a job, so the coefficients inside a group differ.
@@ -80,8 +80,8 @@ model scheduling(int jobs, int horizon, int resources, int modes, std::uint64_t 
   for (int j = 0; j < jobs; ++j) {
     std::vector<cw::literal> choice;
     const int base_duration = pick(shortest, longest);
-    std::vector<int> base_demand;
-    for (int r = 0; r < resources; ++r) base_demand.push_back(pick(1, 5));
+    std::vector<int> base_demand(static_cast<std::size_t>(resources));
+    for (int& d : base_demand) d = pick(1, 5);
     std::vector<double> mode_work(static_cast<std::size_t>(resources), 0.0);
     for (int mode = 0; mode < modes; ++mode) {
       // Mode k: longer and lighter (duration + 2k, demand - k, at least 1).
@@ -387,10 +387,10 @@ int main(int argc, char** argv) {
         std::printf("  %-38s %12s\n", c.label().c_str(), "over budget");
         continue;
       }
-      std::printf("  %-38s %12llu %12llu   %.2fx fewer clauses than %s\n", c.label().c_str(),
+      std::printf("  %-38s %12llu %12llu   clauses of %s / these: %.2f\n", c.label().c_str(),
                   static_cast<unsigned long long>(s.clauses), static_cast<unsigned long long>(s.variables),
-                  s.clauses ? static_cast<double>(best_size.clauses) / static_cast<double>(s.clauses) : 0.0,
-                  best->label().c_str());
+                  best->label().c_str(),
+                  s.clauses ? static_cast<double>(best_size.clauses) / static_cast<double>(s.clauses) : 0.0);
     }
     const solve_result base = solve(m, rows, *best, *best, timeout);
     std::printf("  solve with %-33s %8s %9.3f s\n", best->label().c_str(), status_name(base.status), base.seconds);
@@ -398,8 +398,9 @@ int main(int argc, char** argv) {
       if (!group_sizes[gi].ok) continue;
       const choice c{true, {}, group_methods[gi]};
       const solve_result r = solve(m, rows, c, *best, timeout);
-      std::printf("  solve with %-33s %8s %9.3f s   %.2fx the time of %s\n", c.label().c_str(), status_name(r.status),
-                  r.seconds, base.seconds > 0 ? r.seconds / base.seconds : 0.0, best->label().c_str());
+      std::printf("  solve with %-33s %8s %9.3f s   time / time of %s: %.2f\n", c.label().c_str(),
+                  status_name(r.status), r.seconds, best->label().c_str(),
+                  base.seconds > 0 ? r.seconds / base.seconds : 0.0);
       if (base.status != 0 && r.status != 0 && base.status != r.status) {
         std::printf("  DISAGREEMENT: %s says %s, %s says %s\n", best->label().c_str(), status_name(base.status),
                     c.label().c_str(), status_name(r.status));

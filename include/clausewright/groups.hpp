@@ -36,6 +36,7 @@
 #include <numeric>
 #include <span>
 #include <string>
+#include <string_view>
 #include <unordered_map>
 #include <utility>
 #include <vector>
@@ -79,6 +80,17 @@ struct grouped_constraint {
     return m;
   }
   [[nodiscard]] error_position where() const { return at_constraint(index, name); }
+};
+
+// What the method table needs to know about a group-aware encoding, for the
+// row it gets when the encodings are wired into the table: each encoding
+// file defines one (name, source, size, propagation, relations).
+struct group_method_note {
+  std::string_view name;
+  std::string_view source;
+  std::string_view size_note;
+  std::string_view propagation;  // as measured by tests/test_groups.cpp
+  std::string_view relations;    // what it encodes, and what it does not
 };
 
 // The literals of a constraint that says "at most one of them": at-most-one,

@@ -297,6 +297,25 @@ class reduced_group_totalizer_builder {
 
 }  // namespace detail
 
+inline constexpr group_method_note group_generalized_totalizer_note{
+    "group-generalized-totalizer",
+    "Bofill, Coll, Nightingale, Suy, Ulrich-Oltean, Villaret 2022 (Artificial Intelligence 302); Joshi, Martins, "
+    "Manquinho 2015 (CP)",
+    "a node of children with p and q outputs (cut at K+1): (p+1)(q+1)-1 clauses; a leaf is a group, one output per "
+    "distinct coefficient",
+    "arc-consistent for <= together with the groups' at-most-one clauses; not for >= or =",
+    "<=; >= and = through a none literal per group; no full_equivalence (method_not_applicable); needs the "
+    "at-most-one constraints of the groups in the formula"};
+
+inline constexpr group_method_note group_reduced_generalized_totalizer_note{
+    "group-reduced-generalized-totalizer",
+    "Bofill, Coll, Nightingale, Suy, Ulrich-Oltean, Villaret 2022 (Artificial Intelligence 302)",
+    "as the group generalized totalizer with a node's outputs merged into classes of sums: at most K+1 outputs "
+    "per node, one at the root; bounds up to 2^24",
+    "arc-consistent for <= together with the groups' at-most-one clauses; not for >= or =",
+    "<=; >= and = through a none literal per group; no full_equivalence (method_not_applicable); needs the "
+    "at-most-one constraints of the groups in the formula"};
+
 template <class Sink>
 void encode_group_generalized_totalizer(Sink& out, variable_pool& pool, const grouped_constraint& c,
                                         const encode_options& options,

@@ -329,6 +329,15 @@ class group_mdd_builder {
   std::uint64_t entries_ = 0;
 };
 
+inline constexpr group_method_note group_mdd_note{
+    "group-mdd",
+    "Bofill, Coll, Suy, Villaret 2017 (IJCAI), 2020 (Artificial Intelligence Review); intervals as in Abío et al. "
+    "2012 (JAIR)",
+    "at most groups*(K+1) nodes, one variable each, plus one per edge of several literals; per node 1 + e clauses "
+    "(<=, e edges leading elsewhere than none), plus the lower side for >=, = and full",
+    "arc-consistent for <= and >= together with the groups' at-most-one clauses; not for =",
+    "<=, >=, =, full_equivalence; needs the at-most-one constraints of the groups in the formula"};
+
 template <class Sink>
 void encode_group_mdd(Sink& out, variable_pool& pool, const grouped_constraint& c, const encode_options& options,
                       std::uint64_t node_budget = default_bdd_node_budget) {

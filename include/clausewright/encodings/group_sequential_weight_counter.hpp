@@ -126,6 +126,16 @@ void group_sequential_weight_at_most(Sink& out, variable_pool& pool, const std::
   return size;
 }
 
+inline constexpr group_method_note group_sequential_weight_counter_note{
+    "group-sequential-weight-counter",
+    "Bofill, Coll, Nightingale, Suy, Ulrich-Oltean, Villaret 2022 (Artificial Intelligence 302); "
+    "Hölldobler, Manthey, Steinke 2012 (KI)",
+    "n groups, bound K: K(n-1) registers, about (d_i + 1)K clauses per group of d_i distinct coefficients "
+    "(exact: group_sequential_weight_counter_size)",
+    "arc-consistent for <= together with the groups' at-most-one clauses; not for >= or =",
+    "<=; >= and = through a none literal per group; no full_equivalence (method_not_applicable); needs the "
+    "at-most-one constraints of the groups in the formula"};
+
 template <class Sink>
 void encode_group_sequential_weight_counter(Sink& out, variable_pool& pool, const grouped_constraint& c,
                                             const encode_options& options) {
