@@ -66,19 +66,21 @@ const char* name(group_method m) {
 
 template <class Sink>
 void encode_group(group_method m, Sink& out, cw::variable_pool& pool, const cw::grouped_constraint& c,
-                  const cw::encode_options& options) {
+                  const cw::encode_options& options, cw::group_literal_cache* cache = nullptr) {
   switch (m) {
     case group_method::mdd:
-      cw::encode_group_mdd(out, pool, c, options);
+      cw::encode_group_mdd(out, pool, c, options, cw::default_bdd_node_budget, cache);
       return;
     case group_method::totalizer:
-      cw::encode_group_generalized_totalizer(out, pool, c, options);
+      cw::encode_group_generalized_totalizer(out, pool, c, options, cw::default_generalized_totalizer_output_budget,
+                                             cache);
       return;
     case group_method::reduced_totalizer:
-      cw::encode_group_reduced_generalized_totalizer(out, pool, c, options);
+      cw::encode_group_reduced_generalized_totalizer(out, pool, c, options,
+                                                     cw::default_generalized_totalizer_output_budget, cache);
       return;
     case group_method::weight_counter:
-      cw::encode_group_sequential_weight_counter(out, pool, c, options);
+      cw::encode_group_sequential_weight_counter(out, pool, c, options, cache);
       return;
   }
 }
@@ -450,6 +452,49 @@ TEST(GroupEncodings, FullEquivalenceOnlyWhereBuilt) {
       EXPECT_EQ(e.id(), cw::error_id::method_not_applicable);
     }
   }
+}
+
+TEST(GroupEncodings, RowsSharingGroupLiteralsThroughACache) {
+  // Two rows over the same at-most-one sets (two resources of one schedule),
+  // encoded into one formula with one group_literal_cache: for every
+  // assignment within the sets, satisfiable exactly when both rows hold.
+  std::uint64_t shared = 0;
+  for (std::uint32_t seed = 1; seed <= 60; ++seed) {
+    std::mt19937_64 rng(20000 + seed);
+    const auto vars = static_cast<std::int32_t>(4 + rng() % 7);
+    model a = random_model(rng, vars, 4, 5, false, false, true);
+    model b = a;
+    for (auto& t : b.row) t.coefficient = 1 + static_cast<std::int64_t>(rng() % 5);
+    b.rel = static_cast<cw::relation>(rng() % 3);
+    b.bound = static_cast<std::int64_t>(rng() % 8);
+    for (const auto method : all_methods)
+      for (const bool full : {false, true}) {
+        const cw::encode_options options{full};
+        if (!applicable(method, options)) continue;
+        cw::cnf_buffer cnf;
+        cw::variable_pool pool(vars);
+        cw::group_literal_cache cache;
+        for (const model* m : {&a, &b}) {
+          const cw::grouped_constraint g = m->grouped();
+          for (const auto u : g.units) cnf.add_clause({u});
+          encode_group(method, cnf, pool, g, options, &cache);
+        }
+        add_pairwise(cnf, a);
+        shared += cache.size();
+        CaDiCaL::Solver solver;
+        solver.set("quiet", 1);
+        cw_test::add_to_solver(solver, cnf);
+        for (std::uint64_t bits = 0; bits < (std::uint64_t{1} << vars); ++bits) {
+          if (!a.amos_hold(bits)) continue;
+          for (std::int32_t v = 1; v <= vars; ++v) solver.assume(((bits >> (v - 1)) & 1U) ? v : -v);
+          const bool expected = a.row_holds(bits) && b.row_holds(bits);
+          ASSERT_EQ(solver.solve() == 10, expected)
+              << "seed " << 20000 + seed << " " << name(method) << (full ? " (full)" : "") << ": " << a.describe()
+              << " and " << b.describe() << ", bits " << bits;
+        }
+      }
+  }
+  EXPECT_GT(shared, 0U);  // the cache was used
 }
 
 // Satisfiability of a partial assignment by a dynamic program over disjoint

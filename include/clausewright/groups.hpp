@@ -33,6 +33,7 @@
 
 #include <algorithm>
 #include <cstdint>
+#include <map>
 #include <numeric>
 #include <span>
 #include <string>
@@ -186,6 +187,46 @@ struct group_method_note {
   return group_constraint(c, sets);
 }
 
+// One literal y per set of literals of one group and one coefficient, shared
+// by every row encoded with the same cache: x -> y for each x of the set,
+// and, once some row needs the lower side, y -> (some x of the set). Rows of
+// one model often sum the same set: in a schedule with two resources, the
+// starts of a job that keep it running at time t appear in both resource
+// rows of t. Use one cache per formula (the clauses defining y went to the
+// sink of the row that made it).
+class group_literal_cache {
+ public:
+  template <class Sink>
+  [[nodiscard]] literal get(Sink& out, variable_pool& pool, std::span<const literal> set, bool lower) {
+    key_.clear();
+    for (const literal l : set) key_.push_back(l.dimacs());
+    std::sort(key_.begin(), key_.end());
+    auto [it, fresh] = map_.try_emplace(key_, entry{});
+    if (fresh) {
+      it->second.y = pool.fresh();
+      for (const literal l : set) emit(out, ~l, it->second.y);
+    }
+    if (lower && !it->second.lower) {
+      it->second.lower = true;
+      std::vector<literal> some;
+      some.reserve(set.size() + 1);
+      some.push_back(~it->second.y);
+      some.insert(some.end(), set.begin(), set.end());
+      out.add_clause(std::span<const literal>(some));
+    }
+    return it->second.y;
+  }
+  [[nodiscard]] std::size_t size() const noexcept { return map_.size(); }
+
+ private:
+  struct entry {
+    literal y;
+    bool lower = false;
+  };
+  std::map<std::vector<std::int32_t>, entry> map_;
+  std::vector<std::int32_t> key_;
+};
+
 namespace detail {
 
 // The "<=" form of a ">=" row over groups, for the encodings that count up to
@@ -244,37 +285,51 @@ template <class Sink>
   return le;
 }
 
-// Literals of one group that share a coefficient share one fresh literal y:
-// x -> y for each of them (always: the upper side needs it to count x, the
-// lower side to propagate from x), and y -> the disjunction of them (lower
-// side: y must not count a literal that is not there). A counter then takes one input per distinct coefficient of
-// the group instead of one per literal; y stays in an at-most-one relation
-// with the group's other inputs as long as the group's literals are. Returns
-// the group with one term per distinct coefficient (a single literal stays
-// itself), in decreasing coefficient order.
+// The literal standing for "one of `set` is true" (a set of literals of one
+// group with one coefficient, two or more): from the cache when there is one,
+// else a fresh y with x -> y for each x, and y -> (some x) for the lower side.
+template <class Sink>
+[[nodiscard]] literal group_literal(Sink& out, variable_pool& pool, std::span<const literal> set, bool lower,
+                                    group_literal_cache* cache) {
+  if (cache != nullptr) return cache->get(out, pool, set, lower);
+  const literal y = pool.fresh();
+  for (const literal l : set) emit(out, ~l, y);
+  if (lower) {
+    std::vector<literal> some;
+    some.reserve(set.size() + 1);
+    some.push_back(~y);
+    some.insert(some.end(), set.begin(), set.end());
+    out.add_clause(std::span<const literal>(some));
+  }
+  return y;
+}
+
+// Literals of one group that share a coefficient share one literal y
+// (group_literal): x -> y for each of them (always: the upper side needs it
+// to count x, the lower side to propagate from x), and y -> the disjunction
+// of them (lower side: y must not count a literal that is not there). A
+// counter then takes one input per distinct coefficient of the group instead
+// of one per literal; the y of one group stay in an at-most-one relation as
+// long as the group's literals are. Returns the group with one term per
+// distinct coefficient (a single literal stays itself), in decreasing
+// coefficient order.
 template <class Sink>
 [[nodiscard]] std::vector<term> merge_equal_coefficients(Sink& out, variable_pool& pool, const std::vector<term>& group,
-                                                         sides which) {
+                                                         sides which, group_literal_cache* cache = nullptr) {
   std::vector<term> sorted = group;
   std::stable_sort(sorted.begin(), sorted.end(),
                    [](const term& a, const term& b) { return a.coefficient > b.coefficient; });
   std::vector<term> merged;
-  std::vector<literal> some;
+  std::vector<literal> set;
   for (std::size_t i = 0; i < sorted.size();) {
     std::size_t j = i + 1;
     while (j < sorted.size() && sorted[j].coefficient == sorted[i].coefficient) ++j;
     if (j - i == 1) {
       merged.push_back(sorted[i]);
     } else {
-      const literal y = pool.fresh();
-      for (std::size_t k = i; k < j; ++k) emit(out, ~sorted[k].lit, y);
-      if (has_lower(which)) {
-        some.clear();
-        some.push_back(~y);
-        for (std::size_t k = i; k < j; ++k) some.push_back(sorted[k].lit);
-        out.add_clause(std::span<const literal>(some));
-      }
-      merged.push_back({sorted[i].coefficient, y});
+      set.clear();
+      for (std::size_t k = i; k < j; ++k) set.push_back(sorted[k].lit);
+      merged.push_back({sorted[i].coefficient, group_literal(out, pool, set, has_lower(which), cache)});
     }
     i = j;
   }

@@ -25,7 +25,7 @@
 // when no sum the other groups can reach tells them apart against K; the
 // class of 0 needs no output. The root then has one output (sum > K), and an
 // inner node at most as many as the distinct sums of the rest of the tree
-// (at most K+1). A leaf's literals of one class share one fresh literal.
+// (at most K+1). A leaf's literals of one class share one literal.
 // Computing the classes costs the sum sets of every subtree and of its rest
 // (O(K^2) per node, checked against a budget); bounds up to 2^24.
 //
@@ -138,14 +138,16 @@ template <class Sink>
 class reduced_group_totalizer_builder {
  public:
   reduced_group_totalizer_builder(Sink& out, variable_pool& pool, const std::vector<std::vector<term>>& leaves,
-                                  std::int64_t bound, std::uint64_t output_budget, error_position where)
+                                  std::int64_t bound, std::uint64_t output_budget, error_position where,
+                                  group_literal_cache* cache = nullptr)
       : out_(out),
         pool_(pool),
         leaves_(leaves),
         bound_(bound),
         cap_(bound + 1),
         budget_(output_budget),
-        where_(std::move(where)) {
+        where_(std::move(where)),
+        cache_(cache) {
     if (cap_ > (std::int64_t{1} << 24))
       throw error(error_id::over_budget, "the reduced group generalized totalizer takes bounds up to 2^24", where_);
     mark_.assign(static_cast<std::size_t>(cap_) + 1, 0);
@@ -250,9 +252,9 @@ class reduced_group_totalizer_builder {
         if (members.size() == 1) {
           outputs.push_back({value, group[i].lit});
         } else {
-          const literal o = pool_.fresh();
-          for (const std::size_t j : members) emit(out_, ~group[j].lit, o);
-          outputs.push_back({value, o});
+          set_.clear();
+          for (const std::size_t j : members) set_.push_back(group[j].lit);
+          outputs.push_back({value, group_literal(out_, pool_, set_, false, cache_)});
         }
       }
       return outputs;
@@ -291,6 +293,8 @@ class reduced_group_totalizer_builder {
   error_position where_;
   std::uint64_t made_ = 0;
   std::uint64_t work_ = 0;
+  group_literal_cache* cache_;
+  std::vector<literal> set_;
   std::vector<tree_node> nodes_;
   std::vector<char> mark_;  // scratch for plus(), all zero between calls
 };
@@ -319,7 +323,8 @@ inline constexpr group_method_note group_reduced_generalized_totalizer_note{
 template <class Sink>
 void encode_group_generalized_totalizer(Sink& out, variable_pool& pool, const grouped_constraint& c,
                                         const encode_options& options,
-                                        std::uint64_t output_budget = default_generalized_totalizer_output_budget) {
+                                        std::uint64_t output_budget = default_generalized_totalizer_output_budget,
+                                        group_literal_cache* cache = nullptr) {
   if (options.full_equivalence)
     throw error(error_id::method_not_applicable,
                 "group-generalized-totalizer defines its outputs in one direction only (no full equivalence)",
@@ -328,7 +333,8 @@ void encode_group_generalized_totalizer(Sink& out, variable_pool& pool, const gr
     const std::int64_t cap = detail::checked_add(le.bound, 1, c.where(), "the bound plus one");
     std::vector<std::vector<term>> leaves;
     leaves.reserve(le.groups.size());
-    for (const auto& g : le.groups) leaves.push_back(detail::merge_equal_coefficients(out, pool, g, sides::upper));
+    for (const auto& g : le.groups)
+      leaves.push_back(detail::merge_equal_coefficients(out, pool, g, sides::upper, cache));
     detail::group_totalizer_builder<Sink> builder(out, pool, leaves, cap, output_budget, c.where());
     const std::vector<weighted_output> root = builder.build(0, leaves.size());
     if (!root.empty() && root.back().value == cap) emit(out, ~root.back().lit);
@@ -346,13 +352,14 @@ namespace clausewright {
 template <class Sink>
 void encode_group_reduced_generalized_totalizer(
     Sink& out, variable_pool& pool, const grouped_constraint& c, const encode_options& options,
-    std::uint64_t output_budget = default_generalized_totalizer_output_budget) {
+    std::uint64_t output_budget = default_generalized_totalizer_output_budget, group_literal_cache* cache = nullptr) {
   if (options.full_equivalence)
     throw error(error_id::method_not_applicable,
                 "group-reduced-generalized-totalizer defines its outputs in one direction only (no full equivalence)",
                 c.where());
   detail::encode_groups_as_at_most(out, pool, c, [&](const grouped_constraint& le) {
-    detail::reduced_group_totalizer_builder<Sink> builder(out, pool, le.groups, le.bound, output_budget, c.where());
+    detail::reduced_group_totalizer_builder<Sink> builder(out, pool, le.groups, le.bound, output_budget, c.where(),
+                                                          cache);
     for (const weighted_output& o : builder.build()) emit(out, ~o.lit);
   });
 }

@@ -40,7 +40,8 @@
 // An edge taken by several literals (one coefficient) has one fresh literal
 // y: x -> y for each of them, and y -> (some of them) for the lower side.
 // It is made when a node first needs it, so a group whose edges never lead
-// anywhere but where "none" does costs nothing. With edge literals, a node's
+// anywhere but where "none" does costs nothing; with a group_literal_cache
+// (optional last argument) rows over the same sets share it. With edge literals, a node's
 // clauses are per distinct coefficient, not per literal.
 //
 // Relations: <= asserts the root for K with the upper side; >= asserts the
@@ -84,8 +85,9 @@ template <class Sink>
 class group_mdd_builder {
  public:
   group_mdd_builder(Sink& out, variable_pool& pool, const std::vector<std::vector<term>>& groups, sides which,
-                    std::uint64_t node_budget = default_bdd_node_budget, error_position where = {})
-      : out_(out), pool_(pool), which_(which), budget_(node_budget), where_(std::move(where)) {
+                    std::uint64_t node_budget = default_bdd_node_budget, error_position where = {},
+                    group_literal_cache* cache = nullptr)
+      : out_(out), pool_(pool), which_(which), budget_(node_budget), where_(std::move(where)), cache_(cache) {
     std::vector<std::size_t> order(groups.size());
     std::iota(order.begin(), order.end(), std::size_t{0});
     std::stable_sort(order.begin(), order.end(), [&](std::size_t a, std::size_t b) {
@@ -260,17 +262,9 @@ class group_mdd_builder {
     const std::size_t first = edge_first_[e];
     const std::size_t last = edge_first_[e + 1];
     if (last - first == 1) return inputs_[first];
-    if (!edge_literal_[e].valid()) {
-      const literal y = pool_.fresh();
-      edge_literal_[e] = y;
-      for (std::size_t i = first; i < last; ++i) emit(out_, ~inputs_[i], y);
-      if (has_lower(which_)) {
-        begin();
-        add(~y);
-        for (std::size_t i = first; i < last; ++i) add(inputs_[i]);
-        end();
-      }
-    }
+    if (!edge_literal_[e].valid())
+      edge_literal_[e] = detail::group_literal(
+          out_, pool_, std::span<const literal>(inputs_).subspan(first, last - first), has_lower(which_), cache_);
     return edge_literal_[e];
   }
 
@@ -314,6 +308,7 @@ class group_mdd_builder {
   sides which_;
   std::uint64_t budget_;
   error_position where_;
+  group_literal_cache* cache_;
   std::vector<layer> layers_;
   std::vector<std::int64_t> edge_weight_;
   std::vector<literal> inputs_;          // the groups' literals, by layer and edge
@@ -340,7 +335,7 @@ inline constexpr group_method_note group_mdd_note{
 
 template <class Sink>
 void encode_group_mdd(Sink& out, variable_pool& pool, const grouped_constraint& c, const encode_options& options,
-                      std::uint64_t node_budget = default_bdd_node_budget) {
+                      std::uint64_t node_budget = default_bdd_node_budget, group_literal_cache* cache = nullptr) {
   if (c.kind == constraint_kind::constant_false) {
     out.add_clause(std::span<const literal>());
     return;
@@ -351,7 +346,7 @@ void encode_group_mdd(Sink& out, variable_pool& pool, const grouped_constraint& 
   sides which = sides::both;
   if (!options.full_equivalence && !at_least) which = sides::upper;
   if (!options.full_equivalence && !at_most) which = sides::lower;
-  group_mdd_builder<Sink> builder(out, pool, c.groups, which, node_budget, c.where());
+  group_mdd_builder<Sink> builder(out, pool, c.groups, which, node_budget, c.where(), cache);
   if (at_most) {
     const bdd_ref r = builder.root(c.bound);
     if (r.is_false())

@@ -93,8 +93,8 @@ void group_sequential_weight_at_most(Sink& out, variable_pool& pool, const std::
 
 // Exact size of encode_group_sequential_weight_counter on a "<=" row whose
 // coefficients are all in 1..bound (bound >= 1; a grouped normalised row),
-// counted from the clause
-// patterns above without building anything.
+// encoded without a group_literal_cache, counted from the clause patterns
+// above without building anything.
 [[nodiscard]] inline encoding_size group_sequential_weight_counter_size(const grouped_constraint& c) {
   encoding_size size;
   if (c.is_constant() || c.groups.size() < 2 || c.maximum_sum() <= c.bound) return size;
@@ -138,7 +138,7 @@ inline constexpr group_method_note group_sequential_weight_counter_note{
 
 template <class Sink>
 void encode_group_sequential_weight_counter(Sink& out, variable_pool& pool, const grouped_constraint& c,
-                                            const encode_options& options) {
+                                            const encode_options& options, group_literal_cache* cache = nullptr) {
   if (options.full_equivalence)
     throw error(error_id::method_not_applicable,
                 "group-sequential-weight-counter defines its registers in one direction only (no full equivalence)",
@@ -146,7 +146,7 @@ void encode_group_sequential_weight_counter(Sink& out, variable_pool& pool, cons
   detail::encode_groups_as_at_most(out, pool, c, [&](const grouped_constraint& le) {
     std::vector<std::vector<term>> rows;
     rows.reserve(le.groups.size());
-    for (const auto& g : le.groups) rows.push_back(detail::merge_equal_coefficients(out, pool, g, sides::upper));
+    for (const auto& g : le.groups) rows.push_back(detail::merge_equal_coefficients(out, pool, g, sides::upper, cache));
     detail::group_sequential_weight_at_most(out, pool, rows, le.bound, c.where());
   });
 }
