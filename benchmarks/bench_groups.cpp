@@ -207,10 +207,11 @@ struct prepared_row {
 
 std::vector<prepared_row> prepare(const model& m) {
   std::vector<prepared_row> out;
+  const cw::at_most_one_index index(m.exactly_one);
   for (std::size_t i = 0; i < m.rows.size(); ++i) {
     prepared_row p;
     p.normal = cw::normalize(m.rows[i].terms, cw::relation::le, m.rows[i].bound, i);
-    p.grouped = cw::group_constraint(p.normal, m.exactly_one);
+    p.grouped = cw::group_constraint(p.normal, index);
     for (const auto& g : p.grouped.groups) p.affected = p.affected || g.size() >= 2;
     out.push_back(std::move(p));
   }

@@ -33,8 +33,10 @@
 
 #include <algorithm>
 #include <cstdint>
+#include <limits>
 #include <map>
 #include <numeric>
+#include <queue>
 #include <span>
 #include <string>
 #include <string_view>
@@ -102,10 +104,34 @@ struct group_method_note {
   return {};
 }
 
-// Partitions the literals of `c` into groups by the at-most-one sets `amos`
-// (rule above). A constant `c` gives a constant grouped constraint.
+// The model's at-most-one sets by literal, built once for all its rows.
+class at_most_one_index {
+ public:
+  explicit at_most_one_index(std::span<const std::vector<literal>> sets) {
+    if (sets.size() >= std::numeric_limits<std::uint32_t>::max())
+      throw error(error_id::over_budget, "too many at-most-one sets to index");
+    for (std::size_t s = 0; s < sets.size(); ++s)
+      for (const literal l : sets[s]) {
+        auto& list = by_literal_[l.dimacs()];
+        if (list.empty() || list.back() != s) list.push_back(static_cast<std::uint32_t>(s));
+      }
+  }
+  // The sets holding literal l (with that polarity), in the given order.
+  [[nodiscard]] std::span<const std::uint32_t> sets_of(literal l) const {
+    const auto it = by_literal_.find(l.dimacs());
+    if (it == by_literal_.end()) return {};
+    return it->second;
+  }
+
+ private:
+  std::unordered_map<std::int32_t, std::vector<std::uint32_t>> by_literal_;
+};
+
+// Partitions the literals of `c` into groups by the indexed at-most-one sets
+// (rule above). A constant `c` gives a constant grouped constraint. Time:
+// the row's literals times the sets holding each, times log of that.
 [[nodiscard]] inline grouped_constraint group_constraint(const normalized_constraint& c,
-                                                         std::span<const std::vector<literal>> amos) {
+                                                         const at_most_one_index& index) {
   grouped_constraint g;
   g.rel = c.rel;
   g.bound = c.bound;
@@ -117,40 +143,47 @@ struct group_method_note {
     return g;
   }
   g.kind = constraint_kind::linear;
-  // Position of each of the row's literals (distinct variables after normalize).
-  std::unordered_map<std::int32_t, std::size_t> position;
-  position.reserve(c.size());
-  for (std::size_t i = 0; i < c.size(); ++i) position.emplace(c.literals[i].dimacs(), i);
-  // For each set touching the row, the row positions it covers.
+  // For each set touching the row, the row positions it covers; for each
+  // position, the sets covering it.
+  std::unordered_map<std::uint32_t, std::size_t> local;  // set -> index into covers
+  std::vector<std::uint32_t> set_id;
   std::vector<std::vector<std::size_t>> covers;
-  for (const auto& set : amos) {
-    std::vector<std::size_t> cover;
-    for (const literal l : set)
-      if (auto it = position.find(l.dimacs()); it != position.end()) cover.push_back(it->second);
-    std::sort(cover.begin(), cover.end());
-    cover.erase(std::unique(cover.begin(), cover.end()), cover.end());
-    if (cover.size() >= 2) covers.push_back(std::move(cover));
+  std::vector<std::vector<std::size_t>> sets_at(c.size());
+  for (std::size_t i = 0; i < c.size(); ++i)
+    for (const std::uint32_t s : index.sets_of(c.literals[i])) {
+      auto [it, fresh] = local.try_emplace(s, covers.size());
+      if (fresh) {
+        covers.emplace_back();
+        set_id.push_back(s);
+      }
+      covers[it->second].push_back(i);  // positions increase: no repeats
+      sets_at[i].push_back(it->second);
+    }
+  // Greedy with a lazy max-heap on (literals not yet grouped, earlier set first).
+  std::vector<std::size_t> live(covers.size());
+  using entry = std::pair<std::size_t, std::int64_t>;  // (live, -set id)
+  std::priority_queue<entry> heap;
+  for (std::size_t k = 0; k < covers.size(); ++k) {
+    live[k] = covers[k].size();
+    if (live[k] >= 2) heap.emplace(live[k], -static_cast<std::int64_t>(set_id[k]));
   }
   std::vector<char> taken(c.size(), 0);
-  std::vector<std::size_t> live(covers.size());  // literals of each set not yet grouped
-  for (std::size_t s = 0; s < covers.size(); ++s) live[s] = covers[s].size();
-  for (;;) {
-    std::size_t best = covers.size();
-    for (std::size_t s = 0; s < covers.size(); ++s)
-      if (live[s] >= 2 && (best == covers.size() || live[s] > live[best])) best = s;
-    if (best == covers.size()) break;
+  while (!heap.empty()) {
+    const auto [n, minus_id] = heap.top();
+    heap.pop();
+    const std::size_t k = local.at(static_cast<std::uint32_t>(-minus_id));
+    if (n != live[k]) continue;  // stale
     std::vector<term> group;
-    for (const std::size_t i : covers[best]) {
+    for (const std::size_t i : covers[k]) {
       if (taken[i] != 0) continue;
       taken[i] = 1;
       group.push_back({c.coefficients[i], c.literals[i]});
+      for (const std::size_t other : sets_at[i]) {
+        --live[other];
+        if (other != k && live[other] >= 2) heap.emplace(live[other], -static_cast<std::int64_t>(set_id[other]));
+      }
     }
     g.groups.push_back(std::move(group));
-    for (std::size_t s = 0; s < covers.size(); ++s) {
-      std::size_t n = 0;
-      for (const std::size_t i : covers[s]) n += taken[i] == 0 ? 1 : 0;
-      live[s] = n;
-    }
   }
   for (std::size_t i = 0; i < c.size(); ++i)
     if (taken[i] == 0) g.groups.push_back({term{c.coefficients[i], c.literals[i]}});
@@ -165,6 +198,13 @@ struct group_method_note {
     g.groups.clear();
   }
   return g;
+}
+
+// The same with the sets given as lists of literals (indexed on the fly; for
+// many rows of one model, build the at_most_one_index once).
+[[nodiscard]] inline grouped_constraint group_constraint(const normalized_constraint& c,
+                                                         std::span<const std::vector<literal>> amos) {
+  return group_constraint(c, at_most_one_index(amos));
 }
 
 // A row stated with its groups: the terms of each group (coefficients of any
