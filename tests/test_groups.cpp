@@ -333,6 +333,18 @@ TEST(GroupDetection, GreedyLargestCoverFirstAndPolarity) {
   EXPECT_EQ(g3.literal_count(), 3U);
 }
 
+TEST(GroupDetection, AtMostOneSetsFromConstraints) {
+  const std::vector<cw::literal> x{cw::lit(1), cw::lit(2), cw::lit(3)};
+  // x1 + x2 + x3 <= 1 and = 1 are their own sets.
+  EXPECT_EQ(cw::at_most_one_literals(cw::normalize_cardinality(x, cw::relation::le, 1)), x);
+  EXPECT_EQ(cw::at_most_one_literals(cw::normalize_cardinality(x, cw::relation::eq, 1)), x);
+  // At least two of three: at most one of the negations (normalisation turns it around).
+  const std::vector<cw::literal> negated{cw::lit(-1), cw::lit(-2), cw::lit(-3)};
+  EXPECT_EQ(cw::at_most_one_literals(cw::normalize_cardinality(x, cw::relation::ge, 2)), negated);
+  // At most two of three says nothing about pairs.
+  EXPECT_TRUE(cw::at_most_one_literals(cw::normalize_cardinality(x, cw::relation::le, 2)).empty());
+}
+
 TEST(GroupDetection, RandomPartitionsAgainstDefinition) {
   int checked = 0;
   int constant = 0;
