@@ -528,8 +528,14 @@ std::string growth_chart(const json& curve, int metric, const std::string& title
       last_y = y;
     }
     out += "<g data-method=\"" + html_escape(name) + "\"><title>" + html_escape(name) + "</title>";
-    if (!path.empty())
-      out += "<path d=\"" + path + "\" fill=\"none\" stroke=\"" + color + "\" stroke-width=\"2\"/>" + dots;
+    if (!path.empty()) {
+      out += "<path d=\"";
+      out += path;
+      out += "\" fill=\"none\" stroke=\"";
+      out += color;
+      out += "\" stroke-width=\"2\"/>";
+      out += dots;
+    }
     if (s["cut_at"].is_number()) {
       // The run at cut_at passed the budget: a dashed step to the budget
       // line (clauses) or up to the top (variables), ended by a cross; only
