@@ -18,6 +18,7 @@
 #include <memory>
 #include <string>
 #include <system_error>
+#include <tuple>
 #include <vector>
 
 #include <clausewright/io.hpp>
@@ -59,7 +60,10 @@ struct shape_key {
   bool soft = false;
   std::vector<std::int64_t> coefficients;  // sorted; empty for unit coefficients
 
-  auto operator<=>(const shape_key&) const = default;
+  bool operator<(const shape_key& o) const {
+    return std::tie(kind, rel, bound, inputs, soft, coefficients) <
+           std::tie(o.kind, o.rel, o.bound, o.inputs, o.soft, o.coefficients);
+  }
 };
 
 struct shape_group {
@@ -165,7 +169,8 @@ const json* method_entry(const json& constraint, const std::string& name) {
   std::int64_t bound = c.bound;
   if (c.kind == constraint_kind::cardinality || c.kind == constraint_kind::linear) {
     const double ratio = static_cast<double>(c.bound) / static_cast<double>(c.coefficient_sum());
-    bound = std::clamp<std::int64_t>(std::llround(ratio * static_cast<double>(sum)), 1, std::max<std::int64_t>(sum - 1, 1));
+    bound =
+        std::clamp<std::int64_t>(std::llround(ratio * static_cast<double>(sum)), 1, std::max<std::int64_t>(sum - 1, 1));
   }
   return normalize(terms, c.rel, bound, c.index, c.name);
 }
@@ -244,9 +249,8 @@ json growth_curves(const shape_group& g, std::size_t id, const report_request& r
   by_n["group"] = id;
   by_n["axis"] = "n";
   by_n["own"] = n;
-  by_n["series"] = curve(c, ns, [&](std::int64_t x) {
-    return x == n ? c : scale_inputs(c, static_cast<std::size_t>(x));
-  }, r, options);
+  by_n["series"] = curve(
+      c, ns, [&](std::int64_t x) { return x == n ? c : scale_inputs(c, static_cast<std::size_t>(x)); }, r, options);
   out.push_back(std::move(by_n));
   if (c.kind == constraint_kind::cardinality || c.kind == constraint_kind::linear) {
     // Against the bound, n fixed: every value the series reaches below the
@@ -257,8 +261,8 @@ json growth_curves(const shape_group& g, std::size_t id, const report_request& r
     by_bound["group"] = id;
     by_bound["axis"] = "bound";
     by_bound["own"] = c.bound;
-    by_bound["series"] = curve(c, bounds, [&](std::int64_t b) { return b == c.bound ? c : with_bound(c, b); }, r,
-                               options);
+    by_bound["series"] = curve(
+        c, bounds, [&](std::int64_t b) { return b == c.bound ? c : with_bound(c, b); }, r, options);
     out.push_back(std::move(by_bound));
   }
   return out;
@@ -364,7 +368,8 @@ json page_data(const report_request& r, const json& stats, const shape_collector
   std::vector<std::size_t> order(groups.size());
   for (std::size_t i = 0; i < order.size(); ++i) order[i] = i;
   std::stable_sort(order.begin(), order.end(), [&](std::size_t a, std::size_t b) {
-    if (groups[a].picked_clauses != groups[b].picked_clauses) return groups[a].picked_clauses > groups[b].picked_clauses;
+    if (groups[a].picked_clauses != groups[b].picked_clauses)
+      return groups[a].picked_clauses > groups[b].picked_clauses;
     return groups[a].count > groups[b].count;
   });
   // A page of a model whose every constraint has its own shape stays small:

@@ -180,8 +180,8 @@ void text(std::string& out, double x, double y, const std::string& content, cons
 
 void line(std::string& out, double x1, double y1, double x2, double y2, std::string_view stroke,
           const std::string& extra = "") {
-  out += "<line x1=\"" + num(x1) + "\" y1=\"" + num(y1) + "\" x2=\"" + num(x2) + "\" y2=\"" + num(y2) +
-         "\" stroke=\"" + std::string(stroke) + "\"" + (extra.empty() ? "" : " " + extra) + "/>";
+  out += "<line x1=\"" + num(x1) + "\" y1=\"" + num(y1) + "\" x2=\"" + num(x2) + "\" y2=\"" + num(y2) + "\" stroke=\"" +
+         std::string(stroke) + "\"" + (extra.empty() ? "" : " " + extra) + "/>";
 }
 
 std::string svg_open(double width, double height, const std::string& label) {
@@ -199,7 +199,8 @@ void y_axis(std::string& out, const scale& s, double x0, double x1, const std::s
   }
   line(out, x0, s.r0, x0, s.r1, axis_color);
   text(out, x0 - 54, title_y, title,
-       "class=\"axis-title\" transform=\"rotate(-90 " + num(x0 - 54) + " " + num(title_y) + ")\" text-anchor=\"middle\"");
+       "class=\"axis-title\" transform=\"rotate(-90 " + num(x0 - 54) + " " + num(title_y) +
+           ")\" text-anchor=\"middle\"");
 }
 
 // --- sections -------------------------------------------------------------------------------
@@ -228,7 +229,8 @@ std::string summary(const json& data) {
            attribute + "=\"" + raw + "\">" + html_escape(value) + "</div><div class=\"note\">" + html_escape(note) +
            "</div></div>";
   };
-  card("clauses (picked)", fmt_int(u64(picked["clauses"])), "data-total-clauses", std::to_string(u64(picked["clauses"])),
+  card("clauses (picked)", fmt_int(u64(picked["clauses"])), "data-total-clauses",
+       std::to_string(u64(picked["clauses"])),
        "constraints only; CNF header: " + fmt_int(u64(picked["cnf"]["clauses"])));
   card("auxiliary variables (picked)", fmt_int(u64(picked["vars"])), "data-total-vars",
        std::to_string(u64(picked["vars"])), "CNF variables: " + fmt_int(u64(picked["cnf"]["variables"])));
@@ -271,15 +273,20 @@ std::string totals_chart(const json& data) {
   for (const double t : s.ticks()) {
     const double x = s(t);
     line(out, x, top - 6, x, height - 48, grid_color);
-    text(out, x, height - 32, factor ? fmt_factor(t) : fmt_compact(t), "class=\"tick\" text-anchor=\"middle\"");
+    text(out, x, height - 32, factor ? "\xc3\x97" + fmt_compact(t) : fmt_compact(t),
+         "class=\"tick\" text-anchor=\"middle\"");
   }
   if (factor && s.d0 < 1 && s.d1 > 1) {
     line(out, s(1), top - 10, s(1), height - 48, text_color, "stroke-dasharray=\"4 3\"");
-    text(out, s(1), top - 14, "\xc3\x97" "1: as large as the model", "class=\"note-text\" text-anchor=\"middle\"");
+    text(out, s(1), top - 14,
+         "\xc3\x97"
+         "1: as large as the model",
+         "class=\"note-text\" text-anchor=\"middle\"");
   }
   text(out, (left + right) / 2, height - 10,
-       factor ? "DIMACS bytes of the clauses \xc3\xb7 bytes of the model file" + std::string(s.log ? " (log scale)" : "")
-              : "clauses" + std::string(s.log ? " (log scale)" : ""),
+       factor
+           ? "DIMACS bytes of the clauses \xc3\xb7 bytes of the model file" + std::string(s.log ? " (log scale)" : "")
+           : "clauses" + std::string(s.log ? " (log scale)" : ""),
        "class=\"axis-title\" text-anchor=\"middle\"");
   double y = top;
   for (const json& t : totals) {
@@ -294,16 +301,22 @@ std::string totals_chart(const json& data) {
     text(out, left - 10, y + 17, is_picked ? "picked (per constraint)" : name,
          std::string("text-anchor=\"end\" class=\"") + (is_picked ? "row-label strong" : "row-label") + "\"");
     out += "<rect x=\"" + num(left) + "\" y=\"" + num(y + 4) + "\" width=\"" + num(std::max(x - left, 1.0)) +
-           "\" height=\"" + num(row - 8) + "\" rx=\"2\" fill=\"" + (is_picked ? std::string(picked_color) : color_of(name)) +
-           "\"" + (over ? " fill-opacity=\"0.55\"" : "") + "/>";
+           "\" height=\"" + num(row - 8) + "\" rx=\"2\" fill=\"" +
+           (is_picked ? std::string(picked_color) : color_of(name)) + "\"" + (over ? " fill-opacity=\"0.55\"" : "") +
+           "/>";
     if (over)
       out += "<rect x=\"" + num(left) + "\" y=\"" + num(y + 4) + "\" width=\"" + num(std::max(x - left, 1.0)) +
              "\" height=\"" + num(row - 8) + "\" fill=\"url(#hatch)\"/>";
-    std::string label = (factor ? fmt_factor(v) + "  \xc2\xb7  " : "") + fmt_int(u64(t["clauses"])) + " clauses, " +
-                        fmt_int(u64(t["vars"])) + " vars";
-    if (over) label = "\xe2\x89\xa5 " + label + " (over budget)";
+    std::string label = over ? "\xe2\x89\xa5 " : "";
+    if (factor) label += fmt_factor(v) + "  \xc2\xb7  ";
+    label += fmt_int(u64(t["clauses"]));
+    label += " clauses, ";
+    label += fmt_int(u64(t["vars"]));
+    label += " vars";
+    if (over) label += " (over budget)";
     if (!is_picked && u64(t["fallbacks"]) != 0) label += ", " + fmt_int(u64(t["fallbacks"])) + " fallbacks";
-    text(out, std::max(x, left) + 8, y + 17, label, std::string("class=\"bar-label") + (is_picked ? " strong" : "") + "\"");
+    text(out, std::max(x, left) + 8, y + 17, label,
+         std::string("class=\"bar-label") + (is_picked ? " strong" : "") + "\"");
     out += "</g>";
     y += row;
   }
@@ -316,6 +329,7 @@ std::vector<std::string> picks_of(const json& group) {
   for (const auto& [name, count] : group["picks"].items()) picks.emplace_back(count.get<std::uint64_t>(), name);
   std::stable_sort(picks.begin(), picks.end(), [](const auto& a, const auto& b) { return a.first > b.first; });
   std::vector<std::string> out;
+  out.reserve(picks.size());
   for (const auto& p : picks) out.push_back(p.second);
   return out;
 }
@@ -326,6 +340,24 @@ std::string group_title(const json& g) {
     s += " " + g["relation"].get<std::string>() + " " + std::to_string(g["bound"].get<std::int64_t>());
   if (g["soft"].get<bool>()) s += " (soft)";
   return s;
+}
+
+// Kind, relation and bound in a few characters.
+std::string short_shape(const json& g) {
+  const std::string kind = g["kind"].get<std::string>();
+  std::string rel = g["relation"].get<std::string>();
+  if (rel == "<=") rel = "\xe2\x89\xa4";
+  if (rel == ">=") rel = "\xe2\x89\xa5";
+  std::string s;
+  if (kind == "at-most-one")
+    s = "at most one";
+  else if (kind == "exactly-one")
+    s = "exactly one";
+  else if (kind == "cardinality")
+    s = "card. " + rel + " " + std::to_string(g["bound"].get<std::int64_t>());
+  else
+    s = kind + " " + rel + " " + std::to_string(g["bound"].get<std::int64_t>());
+  return g["soft"].get<bool>() ? s + ", soft" : s;
 }
 
 constexpr std::size_t chart_groups = 8;
@@ -353,16 +385,17 @@ std::string groups_chart(const json& data) {
   const double right = width - 16;
   const double top = 30;
   const double bottom = 330;
-  const double height = bottom + 58;
+  const double height = bottom + 56;
   const scale s = log_scale(std::max(std::min(lo, 1.0), 1.0), hi, bottom, top);
   std::string out = svg_open(width, height, "clauses per constraint group and method");
-  out += "<defs><pattern id=\"hatch\" patternUnits=\"userSpaceOnUse\" width=\"6\" height=\"6\" "
-         "patternTransform=\"rotate(45)\"><rect width=\"3\" height=\"6\" fill=\"#ffffff\" fill-opacity=\"0.6\"/>"
-         "</pattern></defs>";
+  out +=
+      "<defs><pattern id=\"hatch\" patternUnits=\"userSpaceOnUse\" width=\"6\" height=\"6\" "
+      "patternTransform=\"rotate(45)\"><rect width=\"3\" height=\"6\" fill=\"#ffffff\" fill-opacity=\"0.6\"/>"
+      "</pattern></defs>";
   y_axis(out, s, left, right, "clauses in the group (log)", (top + bottom) / 2);
   const double gap = 26;
-  const double slot =
-      std::min(34.0, (right - left - gap * static_cast<double>(shown.size() + 1)) / static_cast<double>(std::max<std::size_t>(bars, 1)));
+  const double slot = std::min(34.0, (right - left - gap * static_cast<double>(shown.size() + 1)) /
+                                         static_cast<double>(std::max<std::size_t>(bars, 1)));
   // Centred when the bars do not fill the width.
   const double used = slot * static_cast<double>(bars) + gap * static_cast<double>(shown.size() - 1);
   double x = left + std::max(gap, (right - left - used) / 2);
@@ -378,9 +411,10 @@ std::string groups_chart(const json& data) {
       const bool over = u64(m["over_budget"]) != 0;
       out += "<g data-method=\"" + html_escape(name) + "\" data-group=\"" + std::to_string(u64(g["id"])) +
              "\" data-clauses=\"" + std::to_string(u64(m["clauses"])) + "\"" + (picked ? " data-picked=\"1\"" : "") +
-             "><title>" + html_escape(name + ": " + fmt_int(u64(m["clauses"])) + " clauses, " + fmt_int(u64(m["vars"])) +
-                                      " auxiliary variables" + (over ? " (over budget: where the run stopped)" : "") +
-                                      (picked ? " \xe2\x80\x94 picked" : "")) +
+             "><title>" +
+             html_escape(name + ": " + fmt_int(u64(m["clauses"])) + " clauses, " + fmt_int(u64(m["vars"])) +
+                         " auxiliary variables" + (over ? " (over budget: where the run stopped)" : "") +
+                         (picked ? " \xe2\x80\x94 picked" : "")) +
              "</title>";
       const double w = slot - 3;
       out += "<rect x=\"" + num(x) + "\" y=\"" + num(y) + "\" width=\"" + num(w) + "\" height=\"" +
@@ -402,9 +436,12 @@ std::string groups_chart(const json& data) {
     }
     const double mid = (start + x - 3) / 2;
     line(out, start, bottom, x - 3, bottom, text_color);
-    text(out, mid, bottom + 18, "G" + std::to_string(u64(g["id"])) + ": " + group_title(g),
+    // Three short lines: a group may be only a dozen narrow bars wide.
+    text(out, mid, bottom + 16,
+         "G" + std::to_string(u64(g["id"])) + " \xc2\xb7 " + fmt_int(u64(g["count"])) + "\xc3\x97",
          "class=\"group-label\" text-anchor=\"middle\"");
-    text(out, mid, bottom + 34, "n = " + fmt_int(u64(g["inputs"])), "class=\"tick\" text-anchor=\"middle\"");
+    text(out, mid, bottom + 30, short_shape(g), "class=\"tick\" text-anchor=\"middle\"");
+    text(out, mid, bottom + 44, "n = " + fmt_int(u64(g["inputs"])), "class=\"tick\" text-anchor=\"middle\"");
     x += gap;
   }
   return out + "</svg>";
@@ -467,7 +504,8 @@ std::string growth_chart(const json& curve, int metric, const std::string& title
   if (metric == 1 && cut) {
     const double by = sy(budget);
     line(out, left, by, right, by, "#c62828", "stroke-dasharray=\"2 3\"");
-    text(out, right - 4, by - 5, "curve budget " + fmt_compact(budget), "class=\"note-text budget\" text-anchor=\"end\"");
+    text(out, right - 4, by - 5, "curve budget " + fmt_compact(budget),
+         "class=\"note-text budget\" text-anchor=\"end\"");
   }
   for (const json& s : curve["series"]) {
     const std::string name = s["method"].get<std::string>();
@@ -481,14 +519,23 @@ std::string growth_chart(const json& curve, int metric, const std::string& title
       if (v <= 0) continue;
       const double x = sx(p[0].get<double>());
       const double y = sy(v);
-      path += (path.empty() ? "M" : " L") + num(x) + " " + num(y);
+      path += path.empty() ? "M" : " L";
+      path += num(x);
+      path += ' ';
+      path += num(y);
       dots += "<circle cx=\"" + num(x) + "\" cy=\"" + num(y) + "\" r=\"2.2\" fill=\"" + color + "\"/>";
       last_x = x;
       last_y = y;
     }
     out += "<g data-method=\"" + html_escape(name) + "\"><title>" + html_escape(name) + "</title>";
-    if (!path.empty())
-      out += "<path d=\"" + path + "\" fill=\"none\" stroke=\"" + color + "\" stroke-width=\"2\"/>" + dots;
+    if (!path.empty()) {
+      out += "<path d=\"";
+      out += path;
+      out += "\" fill=\"none\" stroke=\"";
+      out += color;
+      out += "\" stroke-width=\"2\"/>";
+      out += dots;
+    }
     if (s["cut_at"].is_number()) {
       // The run at cut_at passed the budget: a dashed step to the budget
       // line (clauses) or up to the top (variables), ended by a cross; only
@@ -524,8 +571,8 @@ std::string curves_section(const json& data) {
     if (id != current) {
       if (current != 0) out += "</div>";
       current = id;
-      out += "<h3>G" + std::to_string(id) + ": " + html_escape(group_title(g)) + ", n = " +
-             fmt_int(u64(g["inputs"])) + "</h3><div class=\"grid\">";
+      out += "<h3>G" + std::to_string(id) + ": " + html_escape(group_title(g)) + ", n = " + fmt_int(u64(g["inputs"])) +
+             "</h3><div class=\"grid\">";
     }
     const bool by_n = c["axis"] == "n";
     const std::string x_title = by_n ? "n (inputs)" : (g["kind"] == "cardinality" ? "k (the bound)" : "the bound");
@@ -543,8 +590,9 @@ std::string cell_range(std::uint64_t lo, std::uint64_t hi) {
 
 std::string groups_table(const json& data) {
   const json& methods = data["methods"];
-  std::string out = "<div class=\"table-wrap\"><table class=\"groups\"><thead><tr><th>group</th><th>count</th>"
-                    "<th>kind</th><th>n</th><th>bound</th><th>coefficients</th>";
+  std::string out =
+      "<div class=\"table-wrap\"><table class=\"groups\"><thead><tr><th>group</th><th>count</th>"
+      "<th>kind</th><th>n</th><th>bound</th><th>coefficients</th>";
   for (const json& m : methods) {
     const std::string name = m["name"].get<std::string>();
     out += "<th class=\"method\" data-method=\"" + html_escape(name) + "\"><i style=\"background:" + color_of(name) +
@@ -588,28 +636,30 @@ std::string groups_table(const json& data) {
       const json& e = *entry;
       const bool picked = std::find(picks.begin(), picks.end(), name) != picks.end() && !g["trivial"].get<bool>();
       const bool over = u64(e["over_budget"]) != 0;
-      out += "<td class=\"cell" + std::string(picked ? " pick" : "") + "\" data-method=\"" + html_escape(name) +
-             "\" data-clauses=\"" + std::to_string(u64(e["clauses"])) + "\" data-vars=\"" +
-             std::to_string(u64(e["vars"])) + "\"" + (picked ? " style=\"--c:" + color_of(name) + "\"" : "") +
-             " title=\"" +
-             html_escape(name + " per constraint: " + fmt_int(u64(e["clauses_min"])) +
-                         (u64(e["clauses_min"]) != u64(e["clauses_max"]) ? "\xe2\x80\x93" + fmt_int(u64(e["clauses_max"])) : "") +
-                         " clauses, " + fmt_int(u64(e["vars_min"])) +
-                         (u64(e["vars_min"]) != u64(e["vars_max"]) ? "\xe2\x80\x93" + fmt_int(u64(e["vars_max"])) : "") +
-                         " vars; whole group: " + fmt_int(u64(e["clauses"])) + " clauses, " + fmt_int(u64(e["vars"])) +
-                         " vars") +
-             "\">" + (over ? "<span class=\"over\">over</span>" : cell_range(u64(e["clauses_min"]), u64(e["clauses_max"]))) +
-             "<span class=\"vars\">" + cell_range(u64(e["vars_min"]), u64(e["vars_max"])) + "</span></td>";
+      out +=
+          "<td class=\"cell" + std::string(picked ? " pick" : "") + "\" data-method=\"" + html_escape(name) +
+          "\" data-clauses=\"" + std::to_string(u64(e["clauses"])) + "\" data-vars=\"" +
+          std::to_string(u64(e["vars"])) + "\"" + (picked ? " style=\"--c:" + color_of(name) + "\"" : "") +
+          " title=\"" +
+          html_escape(
+              name + " per constraint: " + fmt_int(u64(e["clauses_min"])) +
+              (u64(e["clauses_min"]) != u64(e["clauses_max"]) ? "\xe2\x80\x93" + fmt_int(u64(e["clauses_max"])) : "") +
+              " clauses, " + fmt_int(u64(e["vars_min"])) +
+              (u64(e["vars_min"]) != u64(e["vars_max"]) ? "\xe2\x80\x93" + fmt_int(u64(e["vars_max"])) : "") +
+              " vars; whole group: " + fmt_int(u64(e["clauses"])) + " clauses, " + fmt_int(u64(e["vars"])) + " vars") +
+          "\">" +
+          (over ? "<span class=\"over\">over</span>" : cell_range(u64(e["clauses_min"]), u64(e["clauses_max"]))) +
+          "<span class=\"vars\">" + cell_range(u64(e["vars_min"]), u64(e["vars_max"])) + "</span></td>";
     }
     std::string pick;
     if (g["trivial"].get<bool>()) {
       pick = "(any)";
     } else {
       for (const std::string& p : picks)
-        pick += (pick.empty() ? "" : ", ") + p +
-                (picks.size() > 1 ? " \xc3\x97" + std::to_string(u64(g["picks"][p])) : "");
-      if (u64(g["unpicked"]) != 0) pick += (pick.empty() ? "" : ", ") + std::string("over budget \xc3\x97") +
-                                           std::to_string(u64(g["unpicked"]));
+        pick +=
+            (pick.empty() ? "" : ", ") + p + (picks.size() > 1 ? " \xc3\x97" + std::to_string(u64(g["picks"][p])) : "");
+      if (u64(g["unpicked"]) != 0)
+        pick += (pick.empty() ? "" : ", ") + std::string("over budget \xc3\x97") + std::to_string(u64(g["unpicked"]));
     }
     out += "<td class=\"pick-name\">" + html_escape(pick) + "</td><td class=\"num\">" +
            fmt_int(u64(g["picked_clauses"])) + "<span class=\"vars\">" + fmt_int(u64(g["picked_vars"])) +
@@ -665,8 +715,8 @@ table.groups td.cell{text-align:right;white-space:nowrap}
 table.groups td .vars{display:block;color:var(--muted);font-size:10.5px}
 table.groups td.pick{background:#fff4cc;font-weight:700;box-shadow:inset 3px 0 0 var(--c)}
 table.groups td.na{color:#b0bec5;text-align:center}
-table.groups td.pick-name{font-weight:600;white-space:nowrap}
-table.groups .examples{color:var(--muted);font-size:11px;max-width:170px;overflow:hidden;text-overflow:ellipsis;white-space:nowrap}
+table.groups td.pick-name{font-weight:600;max-width:120px;overflow-wrap:anywhere}
+table.groups .examples{color:var(--muted);font-size:11px;max-width:130px;overflow:hidden;text-overflow:ellipsis;white-space:nowrap}
 .over{color:#c62828;font-weight:600}
 footer{margin-top:30px;color:var(--muted);font-size:12px}
 )css";
@@ -710,11 +760,21 @@ std::string html_escape(std::string_view s) {
     const auto c = static_cast<unsigned char>(s[i]);
     if (c < 0x80) {
       switch (c) {
-        case '&': out += "&amp;"; break;
-        case '<': out += "&lt;"; break;
-        case '>': out += "&gt;"; break;
-        case '"': out += "&quot;"; break;
-        case '\'': out += "&#39;"; break;
+        case '&':
+          out += "&amp;";
+          break;
+        case '<':
+          out += "&lt;";
+          break;
+        case '>':
+          out += "&gt;";
+          break;
+        case '"':
+          out += "&quot;";
+          break;
+        case '\'':
+          out += "&#39;";
+          break;
         default:
           if ((c < 0x20 && c != '\t' && c != '\n') || c == 0x7f)
             out += replacement;
@@ -778,12 +838,13 @@ std::string render_report_html(const nlohmann::ordered_json& data) {
   const std::string model = data["model"].is_string() ? data["model"].get<std::string>() : "";
   std::string out;
   out.reserve(1 << 16);
-  out += "<!DOCTYPE html>\n<html lang=\"en\"><head><meta charset=\"utf-8\">"
-         "<meta name=\"viewport\" content=\"width=device-width, initial-scale=1\">"
-         "<meta http-equiv=\"Content-Security-Policy\" content=\"default-src 'none'; style-src 'unsafe-inline'; "
-         "script-src 'unsafe-inline'; img-src data:\">"
-         "<title>clausewright report: " +
-         html_escape(model) + "</title><style>" + std::string(style) + "</style></head><body><main>";
+  out +=
+      "<!DOCTYPE html>\n<html lang=\"en\"><head><meta charset=\"utf-8\">"
+      "<meta name=\"viewport\" content=\"width=device-width, initial-scale=1\">"
+      "<meta http-equiv=\"Content-Security-Policy\" content=\"default-src 'none'; style-src 'unsafe-inline'; "
+      "script-src 'unsafe-inline'; img-src data:\">"
+      "<title>clausewright report: " +
+      html_escape(model) + "</title><style>" + std::string(style) + "</style></head><body><main>";
   out += "<h1>Encoding report <span class=\"file\">" + html_escape(model) + "</span></h1>";
   std::size_t non_trivial = 0;
   for (const json& g : data["groups"])
@@ -796,35 +857,40 @@ std::string render_report_html(const nlohmann::ordered_json& data) {
          (data["full_equivalence"].get<bool>() ? " \xc2\xb7 full equivalence" : "") + "</div>";
   out += summary(data);
 
-  out += "<h2>Blow-up per method</h2><p class=\"lead\">The whole model under the picked method of each constraint, "
-         "and under each method alone (constraints it cannot encode fall back to the policy). Hatched: some dry run "
-         "passed the budget, so the size is at least this.</p>";
+  out +=
+      "<h2>Blow-up per method</h2><p class=\"lead\">The whole model under the picked method of each constraint, "
+      "and under each method alone (constraints it cannot encode fall back to the policy). Hatched: some dry run "
+      "passed the budget, so the size is at least this.</p>";
   out += legend(data["methods"], true);
   out += totals_chart(data);
 
-  out += "<h2>Clauses per constraint group</h2><p class=\"lead\">Constraints of one shape (kind, relation, bound, "
-         "inputs and multiset of coefficients) form a group; bars are the clauses of the whole group under each "
-         "method, the outlined bar with the marker is the method the policy picked. The " +
-         std::to_string(chart_groups) + " largest groups are drawn; the table below lists all.</p>";
+  out +=
+      "<h2>Clauses per constraint group</h2><p class=\"lead\">Constraints of one shape (kind, relation, bound, "
+      "inputs and multiset of coefficients) form a group; bars are the clauses of the whole group under each "
+      "method, the outlined bar with the marker is the method the policy picked. The " +
+      std::to_string(chart_groups) + " largest groups are drawn; the table below lists all.</p>";
   out += legend(data["methods"], false);
   out += groups_chart(data);
 
-  out += "<h2>Growth</h2><p class=\"lead\">Each method on the shapes of the largest groups, scaled: n' = n\xc2\xb7s "
-         "for s a geometric series (coefficients drawn from the group's own in the same order, the bound in the same "
-         "ratio to their sum), then the bound varied with n fixed. Sizes by dry run; a curve stops (\xc3\x97) where a "
-         "run passes the curve budget of " +
-         fmt_int(u64(data["curve_budget"])) + " clauses.</p>";
+  out +=
+      "<h2>Growth</h2><p class=\"lead\">Each method on the shapes of the largest groups, scaled: n' = n\xc2\xb7s "
+      "for s a geometric series (coefficients drawn from the group's own in the same order, the bound in the same "
+      "ratio to their sum), then the bound varied with n fixed. Sizes by dry run; a curve stops (\xc3\x97) where a "
+      "run passes the curve budget of " +
+      fmt_int(u64(data["curve_budget"])) + " clauses.</p>";
   out += legend(data["methods"], false);
   out += curves_section(data);
 
-  out += "<h2>Constraint groups</h2><p class=\"lead\">Per constraint: clauses (above) and auxiliary variables (below) "
-         "of each method; a range where the group's constraints differ (order of coefficients, units). Highlighted: "
-         "the pick.</p>";
+  out +=
+      "<h2>Constraint groups</h2><p class=\"lead\">Per constraint: clauses (above) and auxiliary variables (below) "
+      "of each method; a range where the group's constraints differ (order of coefficients, units). Highlighted: "
+      "the pick.</p>";
   out += groups_table(data);
 
-  out += "<footer>Written by clausewright report. Sizes are exact counts of dry runs of the encodings (the numbers "
-         "of <code>clausewright stats --json</code>); no solver was run. <span id=\"report-status\" "
-         "data-script=\"not-run\"></span></footer>";
+  out +=
+      "<footer>Written by clausewright report. Sizes are exact counts of dry runs of the encodings (the numbers "
+      "of <code>clausewright stats --json</code>); no solver was run. <span id=\"report-status\" "
+      "data-script=\"not-run\"></span></footer>";
   out += "</main><script type=\"application/json\" id=\"report-data\">" + script_safe_json(data) + "</script>";
   out += "<script>" + std::string(script) + "</script></body></html>\n";
   return out;

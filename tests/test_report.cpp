@@ -132,10 +132,18 @@ image decode_png(const std::string& png) {
       const int c = x >= bpp ? previous[x - bpp] : 0;
       int predicted = 0;
       switch (filter) {
-        case 0: predicted = 0; break;
-        case 1: predicted = a; break;
-        case 2: predicted = b; break;
-        case 3: predicted = (a + b) / 2; break;
+        case 0:
+          predicted = 0;
+          break;
+        case 1:
+          predicted = a;
+          break;
+        case 2:
+          predicted = b;
+          break;
+        case 3:
+          predicted = (a + b) / 2;
+          break;
         case 4: {
           const int p = a + b - c;
           const int pa = std::abs(p - a);
@@ -144,7 +152,8 @@ image decode_png(const std::string& png) {
           predicted = (pa <= pb && pa <= pc) ? a : (pb <= pc ? b : c);
           break;
         }
-        default: throw std::runtime_error("bad row filter " + std::to_string(filter));
+        default:
+          throw std::runtime_error("bad row filter " + std::to_string(filter));
       }
       row[x] = static_cast<unsigned char>((in[x] + predicted) & 0xff);
     }
@@ -156,7 +165,9 @@ image decode_png(const std::string& png) {
   return img;
 }
 
-std::uint32_t parse_color(const std::string& hex) { return static_cast<std::uint32_t>(std::stoul(hex.substr(1), nullptr, 16)); }
+std::uint32_t parse_color(const std::string& hex) {
+  return static_cast<std::uint32_t>(std::stoul(hex.substr(1), nullptr, 16));
+}
 
 // --- the fixture --------------------------------------------------------------------------
 
@@ -283,7 +294,8 @@ void expect_same_numbers(const json& data, const json& stats, const fs::path& mo
 // The rendered total rows (data attributes in the DOM after load).
 std::map<std::string, std::pair<std::uint64_t, std::uint64_t>> rendered_totals(const std::string& dom) {
   std::map<std::string, std::pair<std::uint64_t, std::uint64_t>> out;
-  const std::regex row(R"re(<g class="total" data-method="([^"]+)" data-total-clauses="(\d+)" data-total-vars="(\d+)")re");
+  const std::regex row(
+      R"re(<g class="total" data-method="([^"]+)" data-total-clauses="(\d+)" data-total-vars="(\d+)")re");
   for (auto it = std::sregex_iterator(dom.begin(), dom.end(), row); it != std::sregex_iterator(); ++it)
     out[(*it)[1]] = {std::stoull((*it)[2]), std::stoull((*it)[3])};
   return out;
@@ -369,9 +381,10 @@ TEST_F(report, browser_check_catches_script_errors) {
   // The checks below rest on Chromium reporting errors: a page whose script
   // fails must be caught by them.
   const fs::path page = file("broken.html");
-  write_file(page, "<!DOCTYPE html><html><body><span id=\"s\"></span><script>"
-                   "document.getElementById('s').setAttribute('data-script', 'ran'); no_such_function();"
-                   "</script></body></html>");
+  write_file(page,
+             "<!DOCTYPE html><html><body><span id=\"s\"></span><script>"
+             "document.getElementById('s').setAttribute('data-script', 'ran'); no_such_function();"
+             "</script></body></html>");
   const run_result dom = browse(page, "--dump-dom");
   ASSERT_EQ(dom.code, 0) << dom.err;
   EXPECT_NE(dom.err.find("Uncaught ReferenceError"), std::string::npos) << dom.err;
@@ -384,7 +397,8 @@ TEST_F(report, bundled_models_show_the_numbers_of_stats) {
     const fs::path page = file(std::string(name) + ".html");
     const run_result stats = run("stats --json " + stats_budget + " " + quote(model.string()));
     ASSERT_EQ(stats.code, 0) << stats.err;
-    const run_result made = run("report " + report_budget + " " + quote(model.string()) + " -o " + quote(page.string()));
+    const run_result made =
+        run("report " + report_budget + " " + quote(model.string()) + " -o " + quote(page.string()));
     ASSERT_EQ(made.code, 0) << made.err;
     EXPECT_EQ(made.out, "");
     const std::string html = read_file(page);
@@ -490,7 +504,8 @@ TEST_F(report, model_strings_are_escaped) {
   const std::string nasty = R"(</script><img src=x onerror=\"document.title='owned'\"> & 'q' <b id=\"injected\">)";
   const fs::path model = file("nasty.json");
   write_file(model, R"({"format": "clausewright-model", "version": 1, "constraints": [
-    {"type": "at-most", "name": ")" + nasty + R"(", "literals": ["a", "b", "c", "d"], "k": 2},
+    {"type": "at-most", "name": ")" +
+                        nasty + R"(", "literals": ["a", "b", "c", "d"], "k": 2},
     {"type": "exactly-one", "name": "plain", "literals": ["a", "b", "c"]}]})");
   const fs::path page = file("nasty.html");
   const run_result made = run("report " + quote(model.string()) + " -o " + quote(page.string()));
@@ -502,7 +517,8 @@ TEST_F(report, model_strings_are_escaped) {
   const json data = page_data(html);
   bool found = false;
   for (const json& g : data["groups"])
-    for (const json& e : g["examples"]) found = found || e == R"(</script><img src=x onerror="document.title='owned'"> & 'q' <b id="injected">)";
+    for (const json& e : g["examples"])
+      found = found || e == R"(</script><img src=x onerror="document.title='owned'"> & 'q' <b id="injected">)";
   EXPECT_TRUE(found) << "the name comes back intact from the data block";
   const std::string dom = expect_runs_cleanly(browse(page, "--dump-dom"));
   // (Text keeps its quotes when serialised; an element would start with "<".)
