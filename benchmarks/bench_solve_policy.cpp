@@ -82,11 +82,16 @@ enum class outcome : std::uint8_t { sat, unsat, timeout, too_large, not_applicab
 
 const char* to_string(outcome o) {
   switch (o) {
-    case outcome::sat: return "SAT";
-    case outcome::unsat: return "UNSAT";
-    case outcome::timeout: return "timeout";
-    case outcome::too_large: return "too-large";
-    case outcome::not_applicable: return "n/a";
+    case outcome::sat:
+      return "SAT";
+    case outcome::unsat:
+      return "UNSAT";
+    case outcome::timeout:
+      return "timeout";
+    case outcome::too_large:
+      return "too-large";
+    case outcome::not_applicable:
+      return "n/a";
   }
   return "?";
 }
@@ -97,8 +102,8 @@ struct run_result {
   std::int64_t variables = 0;
   double encode_seconds = 0;
   double solve_seconds = 0;
-  bool checked = true;        // the answer passed every check
-  std::string picks;          // methods used on the non-group rows
+  bool checked = true;             // the answer passed every check
+  std::string picks;               // methods used on the non-group rows
   std::size_t same_as = SIZE_MAX;  // result copied from this column (same formula)
 };
 
@@ -305,8 +310,10 @@ instance_result run_instance(const cb::family_instance& f, const std::vector<col
       if (!needs_method(rows[i])) continue;
       if (!is_group(rows[i])) ++picks[std::string(cw::info(assignment[k][i]).name)];
       const auto* m = find_measurement(measured[i], assignment[k][i]);
-      if (m == nullptr) over = true;
-      else predicted += m->size.clauses;
+      if (m == nullptr)
+        over = true;
+      else
+        predicted += m->size.clauses;
     }
     for (const auto& [name, count] : picks) {
       if (!r.picks.empty()) r.picks += ' ';
@@ -381,7 +388,8 @@ void print_instance(const instance_result& ir, const std::vector<column>& column
   std::printf("\n%s  [%s, expected %s, %d variables, %zu rows; dry runs %.3f s]\n  %s\n", f.name.c_str(),
               f.family.c_str(), cb::to_string(f.status), f.variables, f.rows.size(), ir.select_seconds,
               ir.shape.c_str());
-  std::printf("  %-26s %10s %9s %8s %8s  %-9s %s\n", "method", "clauses", "vars", "enc s", "solve s", "result", "picks");
+  std::printf("  %-26s %10s %9s %8s %8s  %-9s %s\n", "method", "clauses", "vars", "enc s", "solve s", "result",
+              "picks");
   for (std::size_t k = 0; k < columns.size(); ++k) {
     const run_result& r = ir.runs[k];
     if (r.result == outcome::not_applicable) continue;
@@ -537,14 +545,22 @@ int main(int argc, char** argv) {
   for (int i = 1; i < argc; ++i) {
     const std::string_view a = argv[i];
     const bool has_value = i + 1 < argc;
-    if (a == "--limit" && has_value) opt.limit = std::strtod(argv[++i], nullptr);
-    else if (a == "--family" && has_value) opt.family = argv[++i];
-    else if (a == "--json" && has_value) opt.json = argv[++i];
-    else if (a == "--seed" && has_value) opt.seed = std::strtoull(argv[++i], nullptr, 10);
-    else if (a == "--write-opb" && has_value) opt.opb_dir = argv[++i];
-    else if (a == "--quick") opt.quick = true;
-    else if (a == "--list") opt.list = true;
-    else return usage();
+    if (a == "--limit" && has_value)
+      opt.limit = std::strtod(argv[++i], nullptr);
+    else if (a == "--family" && has_value)
+      opt.family = argv[++i];
+    else if (a == "--json" && has_value)
+      opt.json = argv[++i];
+    else if (a == "--seed" && has_value)
+      opt.seed = std::strtoull(argv[++i], nullptr, 10);
+    else if (a == "--write-opb" && has_value)
+      opt.opb_dir = argv[++i];
+    else if (a == "--quick")
+      opt.quick = true;
+    else if (a == "--list")
+      opt.list = true;
+    else
+      return usage();
   }
   if (!(opt.limit > 0)) return usage();
   if (opt.quick) opt.limit = std::min(opt.limit, 2.0);

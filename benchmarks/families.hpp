@@ -52,9 +52,12 @@ enum class known_status : std::uint8_t { sat, unsat, unknown };
 
 [[nodiscard]] constexpr const char* to_string(known_status s) noexcept {
   switch (s) {
-    case known_status::sat: return "SAT";
-    case known_status::unsat: return "UNSAT";
-    case known_status::unknown: return "unknown";
+    case known_status::sat:
+      return "SAT";
+    case known_status::unsat:
+      return "UNSAT";
+    case known_status::unknown:
+      return "unknown";
   }
   return "?";
 }
@@ -134,7 +137,8 @@ class seeded_rng {
   bool chance(int percent) { return between(0, 99) < percent; }
   template <class T>
   void shuffle(std::vector<T>& v) {  // Fisher-Yates with our own ranges
-    for (std::size_t i = v.size(); i > 1; --i) std::swap(v[i - 1], v[static_cast<std::size_t>(between(0, static_cast<std::int64_t>(i) - 1))]);
+    for (std::size_t i = v.size(); i > 1; --i)
+      std::swap(v[i - 1], v[static_cast<std::size_t>(between(0, static_cast<std::int64_t>(i) - 1))]);
   }
 
  private:
@@ -200,7 +204,8 @@ class max_flow {
       }
       if (!seen[sink]) return total;
       std::int64_t push = std::numeric_limits<std::int64_t>::max();
-      for (std::size_t v = sink; v != source; v = edges_[via[v] ^ 1U].to) push = std::min(push, edges_[via[v]].capacity);
+      for (std::size_t v = sink; v != source; v = edges_[via[v] ^ 1U].to)
+        push = std::min(push, edges_[via[v]].capacity);
       for (std::size_t v = sink; v != source; v = edges_[via[v] ^ 1U].to) {
         edges_[via[v]].capacity -= push;
         edges_[via[v] ^ 1U].capacity += push;
@@ -250,8 +255,8 @@ struct bin_packing_params {
   family_instance f;
   f.family = "bin-packing";
   f.name = "bp-b" + std::to_string(p.bins) + "-n" + std::to_string(n) + "-c" + std::to_string(p.capacity) +
-           (p.extra_bins > 0 ? "-opt" : "") + (p.overweight > 0 ? "-over" + std::to_string(p.overweight) : "") +
-           "-s" + std::to_string(p.seed);
+           (p.extra_bins > 0 ? "-opt" : "") + (p.overweight > 0 ? "-over" + std::to_string(p.overweight) : "") + "-s" +
+           std::to_string(p.seed);
   const auto x = [&](std::int64_t i, std::int64_t b) { return literal(static_cast<std::int32_t>(i * k + b + 1)); };
   const auto used = [&](std::int64_t b) { return literal(static_cast<std::int32_t>(n * k + b + 1)); };
   f.variables = static_cast<std::int32_t>(n * k + (p.extra_bins > 0 ? k : 0));
@@ -544,7 +549,8 @@ struct scheduling_params {
     std::vector<literal> one;
     for (std::int64_t t = 0; t < starts; ++t) one.emplace_back(++next);
     f.rows.push_back(detail::group_row(one, row_group::exactly_one, "start job " + std::to_string(j)));
-    for (std::int64_t t = 1; t < starts; ++t) f.objective.push_back({t, literal(first_var[j] + static_cast<std::int32_t>(t))});
+    for (std::int64_t t = 1; t < starts; ++t)
+      f.objective.push_back({t, literal(first_var[j] + static_cast<std::int32_t>(t))});
   }
   for (std::int64_t t = 0; t < horizon; ++t) {
     model_row r;
