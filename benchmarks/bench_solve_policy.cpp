@@ -16,10 +16,19 @@
 // where a method times out while another solves them in under a second.
 // Seconds are processor time of the benchmark's thread (the machine may be
 // shared; the wall time of each solve is printed beside it), and the limit is
-// processor time too, with a wall-clock backstop at 4 times the limit.
+// processor time too, with a wall-clock backstop (--wall-factor, default 4
+// times the limit). A column whose formula equals an earlier column's (the
+// same method on every row) reuses that run.
 //
 // Run: bench_solve_policy [--limit SECONDS] [--family NAME] [--quick]
 //                         [--json FILE] [--seed N] [--write-opb DIR] [--list]
+//                         [--columns NAME,...] [--rule VARIANT] [--wall-factor F]
+//   --quick       two instances per family, limit 2 s (a smoke run, under a
+//                 minute on an idle machine)
+//   --seed N      shifts every generator seed (a fresh sample of each family)
+//   --write-opb   writes every instance as DIR/NAME.opb (for the tool)
+//   --columns     runs only the named columns (method names, default, proposed)
+//   --rule        a variant of the proposed rule measured on the way (below)
 #include <algorithm>
 #include <chrono>
 #include <cmath>
