@@ -363,6 +363,7 @@ instance_result run_instance(const cb::family_instance& f, const std::vector<col
   for (std::size_t i = 0; i < f.rows.size(); ++i)
     rows.push_back(cw::normalize(f.rows[i].terms, f.rows[i].rel, f.rows[i].bound, i, f.rows[i].label));
   out.shape = describe_shape(rows);
+  const cw::model as_model = cb::to_model(f);
 
   // Dry runs of every applicable method per row: the default and the
   // proposed rule choose from them, and they give each column's size before
@@ -479,6 +480,13 @@ instance_result run_instance(const cb::family_instance& f, const std::vector<col
         r.checked = false;
         std::printf("CHECK FAILED: %s with %s: the model violates row %zu (%s)\n", f.name.c_str(),
                     columns[k].name.c_str(), bad, f.rows[bad].label.c_str());
+      }
+      // The same answer through the cw::model writer (the tool's evaluation).
+      const auto violated = as_model.check([&](std::int32_t v) { return values.at(static_cast<std::size_t>(v)); });
+      if (!violated.empty()) {
+        r.checked = false;
+        std::printf("CHECK FAILED: %s with %s: the cw::model of the instance has %zu violated rows\n", f.name.c_str(),
+                    columns[k].name.c_str(), violated.size());
       }
       if (f.status == cb::known_status::unsat) r.checked = false;
     } else if (answer == cw::solve_result::unsatisfiable) {
