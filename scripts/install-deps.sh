@@ -2,7 +2,7 @@
 # Installs the Debian packages clausewright builds with, where they are missing.
 set -euo pipefail
 packages=(cmake g++ clang libcadical-dev nlohmann-json3-dev libcli11-dev libboost-dev libgtest-dev libgmock-dev
-          libbenchmark-dev)
+          libbenchmark-dev coinor-libclp-dev libglpk-dev pkg-config)
 missing=()
 for p in "${packages[@]}"; do
   dpkg-query -W -f='${Status}' "$p" 2>/dev/null | grep -q "install ok installed" || missing+=("$p")

@@ -67,22 +67,39 @@ std::optional<relaxation_answer> relaxation_bound(search_run<Solver>& run, const
   return answer;
 }
 
-// Phases for the first call: the greedy over packing rows, else the
-// relaxation's solution rounded.
+// The first solution's start: the greedy over packing rows, tried as
+// assumptions (a few conflicts: other constraints may reject it; true when
+// the solver has a model of it), else the relaxation's solution rounded as
+// phases.
 template <class Solver>
-void suggest_start(search_run<Solver>& run, const normalized_objective& goal,
+bool suggest_start(search_run<Solver>& run, const normalized_objective& goal,
                    const std::optional<relaxation_answer>& relaxed) {
   const optimize_options& o = run.options();
-  if (!o.solution_phases) return;
   if (std::optional<std::vector<bool>> greedy = greedy_packing(o.rows, goal, run.recorded())) {
+    std::vector<literal> assumptions;
+    for (std::size_t v = 1; v < greedy->size(); ++v) {
+      const literal x(static_cast<std::int32_t>(v));
+      assumptions.push_back((*greedy)[v] ? x : ~x);
+    }
+    // Checking a full assignment can take search when the rows' encodings
+    // propagate weakly: a tenth of the time limit, or a number of conflicts.
+    if (o.time_limit && run.deadline())
+      run.limit_phase(run.start() + std::chrono::duration_cast<solver_clock::duration>(*o.time_limit * 0.1));
+    else
+      run.limit_phase(std::nullopt, std::int64_t{100000});
+    const solve_result answer = run.solve(assumptions);
+    run.limit_phase(std::nullopt);
+    if (answer == solve_result::satisfiable) return true;
     run.suggest(*greedy);
-    return;
+    return false;
   }
+  if (!o.solution_phases) return false;
   if (relaxed && !relaxed->values.empty()) {
     std::vector<bool> rounded(relaxed->values.size(), false);
     for (std::size_t v = 1; v < rounded.size(); ++v) rounded[v] = relaxed->values[v] >= 0.5;
     run.suggest(rounded);
   }
+  return false;
 }
 
 }  // namespace detail
@@ -137,13 +154,16 @@ optimize_result minimize(Solver& solver, variable_pool& pool, objective_bound<So
 
   const std::optional<relaxation_answer> relaxed = detail::relaxation_bound(run, goal, lower_sum);
   const bool boosted = options.search == search_strategy::core_boosted;
-  if (boosted || options.search == search_strategy::core_guided) detail::suggest_start(run, goal, relaxed);
+  const bool started =
+      (boosted || options.search == search_strategy::core_guided) && detail::suggest_start(run, goal, relaxed);
 
   // The first solution, with no bound.
-  switch (run.solve()) {
-    case solve_result::unsatisfiable: return done(optimize_status::unsatisfiable);
-    case solve_result::unknown: return done(optimize_status::unknown);
-    case solve_result::satisfiable: break;
+  if (!started) {
+    switch (run.solve()) {
+      case solve_result::unsatisfiable: return done(optimize_status::unsatisfiable);
+      case solve_result::unknown: return done(optimize_status::unknown);
+      case solve_result::satisfiable: break;
+    }
   }
   std::int64_t best_sum = detail::take_solution(run, solver, goal, options);
   auto stopped_status = [&] { return best_sum <= lower_sum ? optimize_status::optimal : optimize_status::satisfiable; };
@@ -200,9 +220,10 @@ optimize_result minimize(Solver& solver, variable_pool& pool, objective_bound<So
     if (boosted) {
       std::optional<solver_clock::time_point> until;
       std::optional<std::int64_t> conflicts;
+      // With the relaxation's bound at hand the cores have less to add.
+      const double share = relaxed ? options.core_share / 3 : options.core_share;
       if (options.time_limit && run.deadline())
-        until = run.start() + std::chrono::duration_cast<solver_clock::duration>(*options.time_limit *
-                                                                                   options.core_share);
+        until = run.start() + std::chrono::duration_cast<solver_clock::duration>(*options.time_limit * share);
       else
         conflicts = options.core_conflicts;
       run.limit_phase(until, conflicts);
@@ -218,10 +239,10 @@ optimize_result minimize(Solver& solver, variable_pool& pool, objective_bound<So
   }
 
   // Improvement and proof attempts, alternating.
-  detail::neighbourhood_search<Solver, objective_bound<Solver>> neighbourhoods(run, goal, bound);
+  detail::neighbourhood_search<Solver> neighbourhoods(run, goal);
   std::int64_t effort = 2000;  // conflicts of the next proof attempt, doubled after each
   while (best_sum > lower_sum && !run.over()) {
-    if (neighbourhoods.round(best_sum)) return done(optimize_status::optimal);
+    neighbourhoods.round(best_sum);
     if (best_sum <= lower_sum || run.over()) break;
     // Solution-improving: below the best.
     const std::optional<literal> assumption = tighten(goal.value_of_sum(best_sum - 1));

@@ -14,8 +14,11 @@
 // of a few random rows, the relatedness of sharing a constraint; random
 // variables without rows), ask for a better solution under a conflict limit.
 // The free share grows after a neighbourhood proved empty and shrinks after
-// one that ran out of conflicts. An unsatisfiable answer in which no fixing
-// took part proves the bound alone impossible: the best solution is optimal.
+// one that ran out of conflicts. The bound of a neighbourhood is "the free
+// part of the objective below what the best solution leaves it", encoded
+// afresh for the neighbourhood (a few dozen literals, where the objective's
+// own bound may be large or propagate weakly) and retired after the call.
+// Its answers prove nothing about the whole model: it only finds solutions.
 //
 // Part of optimize.hpp: include optimize.hpp, not this.
 #pragma once
@@ -28,7 +31,12 @@
 #include <span>
 #include <vector>
 
+#include "../constraint.hpp"
+#include "../encoder.hpp"
 #include "../literal.hpp"
+#include "../methods.hpp"
+#include "../select.hpp"
+#include "../sink.hpp"
 #include "options.hpp"
 #include "run.hpp"
 
@@ -81,11 +89,11 @@ namespace clausewright::detail {
   return values;
 }
 
-template <class Solver, class Bound>
+template <class Solver>
 class neighbourhood_search {
  public:
-  neighbourhood_search(search_run<Solver>& run, const normalized_objective& goal, Bound& bound)
-      : run_(run), goal_(goal), bound_(bound), settings_(run.options().neighbourhood),
+  neighbourhood_search(search_run<Solver>& run, const normalized_objective& goal)
+      : run_(run), goal_(goal), settings_(run.options().neighbourhood),
         random_(run.options().seed), share_(settings_.free_share) {
     const std::int32_t n = run.recorded();
     for (const linear_row& r : run.options().rows) {
@@ -97,39 +105,55 @@ class neighbourhood_search {
   }
 
   // Up to per_round neighbourhoods; best_sum falls with every better
-  // solution. True: the best solution is proved optimal.
-  bool round(std::int64_t& best_sum) {
+  // solution. The bound is encoded over the free objective literals only
+  // (small, so an arc-consistent method fits), guarded by a fresh literal
+  // that is retired after the call.
+  void round(std::int64_t& best_sum) {
     const std::vector<bool>& incumbent = run_.result().values;
     const auto n = static_cast<std::int32_t>(incumbent.size()) - 1;
-    if (!settings_.enabled || n <= 0 || best_sum <= 0) return false;
+    if (!settings_.enabled || n <= 0 || best_sum <= 0) return;
+    Solver& solver = run_.solver();
     std::vector<char> free(static_cast<std::size_t>(n) + 1, 0);
     std::vector<literal> assumptions;
+    std::vector<term> free_terms;
     for (std::uint32_t k = 0; k < settings_.per_round && best_sum > 0 && !run_.stopped(); ++k) {
       choose(free, n);
+      free_terms.clear();
+      std::int64_t fixed = 0;
+      for (std::size_t i = 0; i < goal_.size(); ++i) {
+        const literal l = goal_.literals[i];
+        const auto v = static_cast<std::size_t>(l.var());
+        if (l.var() <= n && free[v] == 0) {
+          const bool truth = incumbent[v];
+          if (l.negative() ? !truth : truth) fixed += goal_.coefficients[i];
+        } else {
+          free_terms.push_back({goal_.coefficients[i], l});
+        }
+      }
+      const std::int64_t limit = best_sum - 1 - fixed;
+      if (limit < 0) continue;  // the fixed part alone is too dear
+      const literal active = run_.pool().fresh();
+      {
+        guarded_sink<Solver> guarded(solver, ~active);
+        const normalized_constraint c = normalize(free_terms, relation::le, limit);
+        const method_id m = (c.is_constant() || c.kind == constraint_kind::clause)
+                                ? method_id::pairwise
+                                : select_method(run_.pool(), c, run_.options().bound.policy);
+        encode_with(m, guarded, run_.pool(), c);
+      }
       assumptions.clear();
-      const literal limit = bound_.at_most(goal_.value_of_sum(best_sum - 1));
-      assumptions.push_back(limit);
+      assumptions.push_back(active);
       for (std::int32_t v = 1; v <= n; ++v) {
         if (free[static_cast<std::size_t>(v)] != 0) continue;
         const literal x(v);
         assumptions.push_back(incumbent[static_cast<std::size_t>(v)] ? x : ~x);
       }
       const solve_result answer = run_.solve(assumptions, settings_.conflicts);
-      if (answer == solve_result::satisfiable) {
-        best_sum = offer_solution(run_, run_.solver(), goal_, best_sum);
-        continue;
-      }
-      if (answer == solve_result::unsatisfiable) {
-        bool fixing_used = false;
-        for (std::size_t i = 1; i < assumptions.size() && !fixing_used; ++i)
-          fixing_used = run_.solver().failed(assumptions[i]);
-        if (!fixing_used) return true;
-        share_ = std::min(0.9, share_ * 1.15);
-      } else {
-        share_ = std::max(0.01, share_ * 0.85);
-      }
+      if (answer == solve_result::satisfiable) best_sum = offer_solution(run_, solver, goal_, best_sum);
+      emit(solver, ~active);  // retires the neighbourhood's bound
+      if (answer == solve_result::unsatisfiable) share_ = std::min(0.9, share_ * 1.15);
+      if (answer == solve_result::unknown) share_ = std::max(0.01, share_ * 0.85);
     }
-    return false;
   }
 
  private:
@@ -165,7 +189,6 @@ class neighbourhood_search {
 
   search_run<Solver>& run_;
   const normalized_objective& goal_;
-  Bound& bound_;
   neighbourhood_settings settings_;
   std::mt19937_64 random_;
   double share_;
