@@ -315,13 +315,18 @@ inline instance rota(int staff, int need, int most, std::uint64_t seed) {
 }
 
 // Encodes the instance into the solver (every row through the encoder;
-// rows with weights other than 1 by `weighted` when given).
+// rows with weights other than 1 by `weighted` when given and small enough).
 template <class Solver>
 void encode(const instance& m, Solver& solver, cw::variable_pool& pool, std::optional<cw::method_id> weighted = {}) {
   cw::encoder enc(solver, pool);
   for (const cw::linear_row& r : m.rows) {
     const bool unit = std::all_of(r.terms.begin(), r.terms.end(), [](const cw::term& t) { return t.coefficient == 1; });
-    if (!unit && weighted) {
+    // A diagram has at most terms x (bound + 1) nodes: beyond a million the
+    // encoder's pick is taken instead.
+    std::int64_t reach = r.bound + 1;
+    for (const cw::term& t : r.terms) reach += t.coefficient < 0 ? -t.coefficient : 0;
+    const bool small = static_cast<double>(r.terms.size()) * static_cast<double>(reach) <= 1e6;
+    if (!unit && weighted && small) {
       // A diagram over its node budget leaves only its own node literals
       // constrained: the encoder's pick takes over.
       try {

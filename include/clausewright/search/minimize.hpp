@@ -76,22 +76,23 @@ bool suggest_start(search_run<Solver>& run, const normalized_objective& goal,
                    const std::optional<relaxation_answer>& relaxed) {
   const optimize_options& o = run.options();
   if (std::optional<std::vector<bool>> greedy = greedy_packing(o.rows, goal, run.recorded())) {
+    run.suggest(*greedy);
     std::vector<literal> assumptions;
     for (std::size_t v = 1; v < greedy->size(); ++v) {
       const literal x(static_cast<std::int32_t>(v));
       assumptions.push_back((*greedy)[v] ? x : ~x);
     }
     // Checking a full assignment can take search when the rows' encodings
-    // propagate weakly: a tenth of the time limit, or a number of conflicts.
+    // propagate weakly: a twentieth of the time limit and a number of
+    // conflicts; then the greedy values are the phases of the next call.
     if (o.time_limit && run.deadline())
-      run.limit_phase(run.start() + std::chrono::duration_cast<solver_clock::duration>(*o.time_limit * 0.1));
+      run.limit_phase(run.start() + std::chrono::duration_cast<solver_clock::duration>(*o.time_limit * 0.05),
+                      std::int64_t{20000});
     else
-      run.limit_phase(std::nullopt, std::int64_t{100000});
+      run.limit_phase(std::nullopt, std::int64_t{20000});
     const solve_result answer = run.solve(assumptions);
     run.limit_phase(std::nullopt);
-    if (answer == solve_result::satisfiable) return true;
-    run.suggest(*greedy);
-    return false;
+    return answer == solve_result::satisfiable;
   }
   if (!o.solution_phases) return false;
   if (relaxed && !relaxed->values.empty()) {

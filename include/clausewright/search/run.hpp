@@ -142,13 +142,16 @@ class search_run {
       }
     }
   }
-  // Phases from given values (a constructed start), variables 1..values.size()-1.
+  // Phases from given values (a constructed start), variables
+  // 1..values.size()-1; the encodings' own variables false, which is what
+  // one-sided encodings need for the fewest of them to be forced.
   void suggest(const std::vector<bool>& values) {
     if constexpr (requires { solver_.set_phase(literal(1)); }) {
       for (std::size_t v = 1; v < values.size(); ++v) {
         const literal x(static_cast<std::int32_t>(v));
         solver_.set_phase(values[v] ? x : ~x);
       }
+      for (auto v = static_cast<std::int32_t>(values.size()); v <= pool_.top(); ++v) solver_.set_phase(~literal(v));
     }
   }
 
