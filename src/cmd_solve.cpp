@@ -389,6 +389,10 @@ void register_solve(CLI::App& app, command_context& context) {
   auto* cmd = app.add_subcommand("solve",
                                  "Solve a model with the embedded CaDiCaL: decide satisfiability, or find and prove "
                                  "the optimum of its objective and soft constraints");
+  cmd->footer(
+      "Exit codes: 0 optimal, or satisfiable (a solution not proved optimal, after --time-limit, Ctrl-C or "
+      "SIGTERM: the status line and the lower bound say so), or unknown (no solution within the limit); "
+      "1 unsatisfiable; 2 bad input or usage.");
   auto r = std::make_shared<solve_request>();
   cmd->add_option("MODEL", r->model, "Model file (.opb or .json, else by content), or - for standard input")
       ->required();

@@ -98,15 +98,7 @@ class cadical_solver : private detail::cadical_owner, public solver_sink<CaDiCaL
  public:
   // Quiet: CaDiCaL otherwise writes messages of its own to standard output
   // (a contradictory unit clause, for one), where they would mix with ours.
-  //
-  // Without CaDiCaL's "lucky" assignments (all false, all true, ...) tried
-  // before the search: the phases given (a known solution, a constructed
-  // start) are what the first decisions try. Options are set before any
-  // clause (CaDiCaL allows it only then).
-  cadical_solver() : detail::cadical_owner(), solver_sink<CaDiCaL::Solver>(*owned) {
-    owned->set("quiet", 1);
-    owned->set("lucky", 0);
-  }
+  cadical_solver() : detail::cadical_owner(), solver_sink<CaDiCaL::Solver>(*owned) { owned->set("quiet", 1); }
   cadical_solver(const cadical_solver&) = delete;
   cadical_solver& operator=(const cadical_solver&) = delete;
   cadical_solver(cadical_solver&&) = delete;

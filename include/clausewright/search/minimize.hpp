@@ -243,8 +243,12 @@ optimize_result minimize(Solver& solver, variable_pool& pool, objective_bound<So
   detail::neighbourhood_search<Solver> neighbourhoods(run, goal);
   std::int64_t effort = 2000;  // conflicts of the next proof attempt, doubled after each
   while (best_sum > lower_sum && !run.over()) {
+    // While the neighbourhoods improve, they have the time: a proof attempt
+    // needs the objective's bound, which can be large to build.
+    const std::int64_t before = best_sum;
     neighbourhoods.round(best_sum);
     if (best_sum <= lower_sum || run.over()) break;
+    if (best_sum < before) continue;
     // Solution-improving: below the best.
     const std::optional<literal> assumption = tighten(goal.value_of_sum(best_sum - 1));
     switch (solve_with(assumption, effort)) {
