@@ -91,7 +91,10 @@ class core_guided_search {
       std::vector<std::size_t> core;
       for (std::size_t k = 0; k < active.size(); ++k)
         if (solver.failed(assumptions[k])) core.push_back(active[k]);
-      if (core.empty()) return best_sum ? core_outcome::optimal : core_outcome::unsatisfiable;
+      // No assumption took part: the clauses alone are unsatisfiable. With a
+      // solution in hand that cannot be (the clauses added here only define
+      // fresh variables or are implied): claim nothing.
+      if (core.empty()) return best_sum ? core_outcome::stopped : core_outcome::unsatisfiable;
       trim(core);
       std::int64_t w = INT64_MAX;
       for (const std::size_t i : core) w = std::min(w, softs_[i].weight);
