@@ -12,6 +12,9 @@ packages=(
   libcadical-dev nlohmann-json3-dev libcli11-dev libboost-dev libgtest-dev libgmock-dev libbenchmark-dev
   # test_report: the report page in a headless browser, its screenshot decoded with zlib
   chromium zlib1g-dev
+  # the linear relaxation bound (COIN-OR CLP, found through pkg-config) and GLPK, the
+  # independent oracle of optimum values in tests and benchmarks
+  coinor-libclp-dev pkg-config libglpk-dev
 )
 missing=()
 for p in "${packages[@]}"; do

@@ -11,10 +11,14 @@
 // standard error as it is found; the final status, the value and the
 // assignment of the model's variables go to standard output (as JSON with
 // --json). When the time limit ends the search, the best solution so far is
-// "satisfiable". Exit codes: 0 satisfiable (a model without objective or
-// soft constraints) or optimal; 1 unsatisfiable; 2 bad input, usage or an
-// input/output error; 3 unknown (the time limit came before a solution); 4
-// satisfiable but not proved optimal (the time limit ended the search).
+// "satisfiable" (not proved optimal) with the proved lower bound, as after
+// SIGINT or SIGTERM. A progress line (time, best value, lower bound, solver
+// calls, conflicts) goes to standard error every two seconds, and each rise
+// of the lower bound as it is proved. Exit codes: 0 satisfiable (a model
+// without objective or soft constraints) or optimal; 1 unsatisfiable; 2 bad
+// input, usage or an input/output error; 3 unknown (the limit or a signal
+// came before a solution); 4 satisfiable but not proved optimal (the limit or
+// a signal ended the search).
 //
 // Text output: "status S", then "objective V" when there is one (and "soft
 // cost ..." with soft constraints, "lower bound ..." when the search was
@@ -33,16 +37,24 @@
 #include <unistd.h>
 
 #include <algorithm>
+#include <atomic>
 #include <chrono>
 #include <cmath>
+#include <condition_variable>
+#include <csignal>
 #include <cstdio>
 #include <memory>
+#include <mutex>
 #include <optional>
 #include <string>
+#include <thread>
 #include <vector>
 
 #include <clausewright/cadical.hpp>
 #include <clausewright/optimize.hpp>
+#if defined(CLAUSEWRIGHT_TOOL_HAS_LP)
+#include <clausewright/lp_bound.hpp>
+#endif
 #include <nlohmann/json.hpp>
 
 #include "commands.hpp"
@@ -58,7 +70,7 @@ struct solve_request {
   std::string model;
   double time_limit = -1;  // seconds; negative: none
   bool as_json = false;
-  std::string search = "linear";
+  std::string search = "core-boosted";
   bool stats = false;
   std::vector<std::string> methods;
   std::string pick = "balanced";
@@ -167,6 +179,60 @@ model_cost cost_of(const model& m, const std::vector<bool>& values) {
   return c;
 }
 
+// SIGINT and SIGTERM end the search with the best solution so far: the
+// handler only sets the flag, which the solver reads during its search.
+std::atomic<bool> interrupted{false};
+
+extern "C" void on_interrupt(int /*signal*/) { interrupted.store(true); }
+
+// A line on standard error every few seconds while the search runs (also
+// during long solver calls): time, best value, lower bound, calls, conflicts.
+class progress_lines {
+ public:
+  progress_lines() : started_(solver_clock::now()), printer_([this] { loop(); }) {}
+  progress_lines(const progress_lines&) = delete;
+  progress_lines& operator=(const progress_lines&) = delete;
+  ~progress_lines() {
+    {
+      const std::lock_guard<std::mutex> lock(mutex_);
+      done_ = true;
+    }
+    wake_.notify_all();
+    printer_.join();
+  }
+  void update(const search_progress& p) {
+    const std::lock_guard<std::mutex> lock(mutex_);
+    last_ = p;
+  }
+  void lower(std::int64_t bound) {
+    const std::lock_guard<std::mutex> lock(mutex_);
+    last_.lower_bound = std::max(last_.lower_bound, bound);
+  }
+  void best(std::int64_t value) {
+    const std::lock_guard<std::mutex> lock(mutex_);
+    last_.best = value;
+  }
+
+ private:
+  void loop() {
+    std::unique_lock<std::mutex> lock(mutex_);
+    while (!wake_.wait_for(lock, std::chrono::seconds(2), [this] { return done_; })) {
+      const double seconds = std::chrono::duration<double>(solver_clock::now() - started_).count();
+      const std::string best = last_.best ? std::to_string(*last_.best) : std::string("none");
+      std::fprintf(stderr, "clausewright: %.1f s: best %s, lower bound %lld, %llu solver calls, %llu conflicts\n",
+                   seconds, best.c_str(), static_cast<long long>(last_.lower_bound),
+                   static_cast<unsigned long long>(last_.solves), static_cast<unsigned long long>(last_.conflicts));
+    }
+  }
+
+  std::mutex mutex_;
+  std::condition_variable wake_;
+  bool done_ = false;
+  search_progress last_;
+  solver_clock::time_point started_;
+  std::thread printer_;
+};
+
 std::int64_t to_int64(wide_int v, const char* what) {
   if (v > INT64_MAX || v < INT64_MIN) throw error(error_id::overflow, std::string(what) + " overflows the 64-bit range");
   return static_cast<std::int64_t>(v);
@@ -203,7 +269,16 @@ int run_solve(const solve_request& r) {
                static_cast<unsigned long long>(summary.hard_clauses), pool.top(), m.variables());
 
   optimize_options options;
-  options.search = r.search == "binary" ? search_strategy::binary : search_strategy::linear;
+  options.search = find_search_strategy(r.search).value_or(search_strategy::core_boosted);
+  options.stop = &interrupted;
+  // The model's hard constraints as rows of the linear relaxation.
+  for (std::size_t i = 0; i < m.constraints(); ++i) {
+    const constraint_view c = m.constraint(i);
+    if (!c.soft()) options.rows.push_back({{c.terms.begin(), c.terms.end()}, c.rel, c.bound});
+  }
+#if defined(CLAUSEWRIGHT_TOOL_HAS_LP)
+  options.relax = clp_relaxation;
+#endif
   if (r.time_limit >= 0) {
     const auto spent = std::chrono::duration<double>(solver_clock::now() - started);
     options.time_limit = std::max(std::chrono::duration<double>(r.time_limit) - spent, std::chrono::duration<double>(0));
@@ -230,6 +305,21 @@ int run_solve(const solve_request& r) {
                  shown.empty() ? " none" : shown.c_str());
   };
 
+  interrupted.store(false);
+  const auto previous_int = std::signal(SIGINT, on_interrupt);
+  const auto previous_term = std::signal(SIGTERM, on_interrupt);
+  std::optional<progress_lines> progress;
+  progress.emplace();
+  options.on_progress = [&progress](const search_progress& p) { progress->update(p); };
+  options.on_bound = [&progress](const bound_update& b) {
+    progress->lower(b.lower_bound);
+    std::fprintf(stderr, "clausewright: lower bound %lld (%s, %.3f s)\n", static_cast<long long>(b.lower_bound),
+                 std::string(to_string(b.source)).c_str(), b.seconds);
+  };
+  options.on_solution = [&progress, report = options.on_solution](const improving_solution& s) {
+    progress->best(s.objective);
+    report(s);
+  };
   optimize_result result;
   if (optimising) {
     objective_bound<cadical_solver> bounds(solver, pool, cost, options.bound);
@@ -241,6 +331,9 @@ int run_solve(const solve_request& r) {
   } else {
     result = satisfy(solver, pool, options);
   }
+  progress.reset();
+  std::signal(SIGINT, previous_int);
+  std::signal(SIGTERM, previous_term);
   const bool has_solution = result.status == optimize_status::optimal || result.status == optimize_status::satisfiable;
   const std::string status(to_string(result.status));
   std::fprintf(stderr, "clausewright: %s after %llu solver calls, %.3f s\n", status.c_str(),
@@ -319,7 +412,8 @@ void register_solve(CLI::App& app, command_context& context) {
   cmd->add_option("MODEL", r->model, "Model file (.opb or .json, else by content), or - for standard input")
       ->required();
   cmd->add_option("--time-limit", r->time_limit,
-                  "Stop after this many seconds (the best solution so far is reported as satisfiable)")
+                  "Stop after this many seconds (as Ctrl-C and SIGTERM do: the best solution so far is reported "
+                  "as satisfiable, not proved optimal, with the proved lower bound; exit code 4)")
       ->check(CLI::Validator(
           [](std::string& text) {
             double seconds = -1;
@@ -336,8 +430,11 @@ void register_solve(CLI::App& app, command_context& context) {
           "SECONDS", "seconds"));
   cmd->add_flag("--json", r->as_json,
                 "Print the result as JSON: status, objective (integer or null), assignment (name -> true/false)");
-  cmd->add_option("--search", r->search, "linear (default: from the top, each solution tightens the bound) or binary")
-      ->check(CLI::IsMember({"linear", "binary"}));
+  cmd->add_option("--search", r->search,
+                  "core-boosted (default: cores and the linear relaxation for the lower bound, neighbourhoods and "
+                  "solution-improving calls for the best solution), linear (from the top, each solution tightens "
+                  "the bound), binary, or core-guided")
+      ->check(CLI::IsMember({"core-boosted", "linear", "binary", "core-guided"}));
   cmd->add_flag("--stats", r->stats,
                 "First print the size table of every applicable encoding per constraint and the picks (as "
                 "`clausewright stats`)");
@@ -348,8 +445,8 @@ void register_solve(CLI::App& app, command_context& context) {
                   "generalized-totalizer, sequential-weight-counter, bdd, adder, reencode");
   cmd->footer(
       "Exit codes: 0 satisfiable (no objective, no soft constraints) or optimal; 1 unsatisfiable; 2 bad input, usage "
-      "or an input/output error; 3 unknown (the time limit came before any solution); 4 satisfiable, not proved "
-      "optimal (the time limit ended the search).");
+      "or an input/output error; 3 unknown (the time limit, Ctrl-C or SIGTERM came before any solution); 4 "
+      "satisfiable, not proved optimal (the time limit, Ctrl-C or SIGTERM ended the search).");
   cmd->callback([&context, r] { context.exit_code = run_solve(*r); });
 }
 

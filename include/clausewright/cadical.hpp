@@ -13,6 +13,9 @@
 // misuses it can see (values without a model, invalid literals) into errors.
 #pragma once
 
+#include <algorithm>
+#include <atomic>
+#include <cstdint>
 #include <memory>
 #include <optional>
 
@@ -27,11 +30,27 @@ namespace detail {
 // Asked by CaDiCaL, regularly during a search, whether to stop.
 class deadline_terminator final : public CaDiCaL::Terminator {
  public:
-  explicit deadline_terminator(solver_clock::time_point deadline) noexcept : deadline_(deadline) {}
-  bool terminate() override { return solver_clock::now() >= deadline_; }
+  deadline_terminator(std::optional<solver_clock::time_point> deadline, const std::atomic<bool>* stop) noexcept
+      : deadline_(deadline), stop_(stop) {}
+  bool terminate() override {
+    if (stop_ != nullptr && stop_->load(std::memory_order_relaxed)) return true;
+    return deadline_ && solver_clock::now() >= *deadline_;
+  }
 
  private:
-  solver_clock::time_point deadline_;
+  std::optional<solver_clock::time_point> deadline_;
+  const std::atomic<bool>* stop_;
+};
+
+// Counts the clauses CaDiCaL learns (one per conflict) without taking them.
+class conflict_counter final : public CaDiCaL::Learner {
+ public:
+  bool learning(int /*size*/) override {
+    ++count;
+    return false;
+  }
+  void learn(int /*lit*/) override {}
+  std::uint64_t count = 0;
 };
 
 }  // namespace detail
@@ -43,13 +62,25 @@ struct solver_traits<CaDiCaL::Solver> {
   static void add(CaDiCaL::Solver& s, int lit) { s.add(lit); }
   static void assume(CaDiCaL::Solver& s, int lit) { s.assume(lit); }
   static int solve(CaDiCaL::Solver& s, std::optional<solver_clock::time_point> deadline) {
-    if (!deadline) return s.solve();
-    detail::deadline_terminator stop(*deadline);
-    s.connect_terminator(&stop);
+    solve_controls controls{deadline, nullptr, std::nullopt, 0};
+    return solve(s, controls);
+  }
+  static int solve(CaDiCaL::Solver& s, solve_controls& controls) {
+    const bool watched = controls.deadline || controls.stop != nullptr;
+    detail::deadline_terminator stop(controls.deadline, controls.stop);
+    detail::conflict_counter counter;
+    if (watched) s.connect_terminator(&stop);
+    s.connect_learner(&counter);
+    if (controls.conflict_limit) s.limit("conflicts", static_cast<int>(std::min<std::int64_t>(
+                                                          std::max<std::int64_t>(*controls.conflict_limit, 0), INT32_MAX)));
     const int result = s.solve();
-    s.disconnect_terminator();
+    s.disconnect_learner();
+    if (watched) s.disconnect_terminator();
+    controls.conflicts = counter.count;
     return result;
   }
+  static void phase(CaDiCaL::Solver& s, int lit) { s.phase(lit); }
+  static void unphase(CaDiCaL::Solver& s, int lit) { s.unphase(lit); }
   static int val(CaDiCaL::Solver& s, int lit) { return s.val(lit); }
   static bool failed(CaDiCaL::Solver& s, int lit) { return s.failed(lit); }
 };

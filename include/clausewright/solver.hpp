@@ -17,8 +17,16 @@
 // they reach the solver (a 0 inside a clause would end it early), and asking
 // for a value without a satisfiable answer, or for a failed assumption
 // without an unsatisfiable one, is an error instead of the solver aborting.
+//
+// Optional controls, used where the traits offer them (cadical.hpp does):
+// phases (the value a decision tries first, set from a known solution), a
+// conflict limit for one call, a stop flag read during the search (set by a
+// signal handler, say), and the number of conflicts a call took. A solver
+// without them still works: phases are hints, and the stop flag is read
+// between calls.
 #pragma once
 
+#include <atomic>
 #include <chrono>
 #include <concepts>
 #include <cstdint>
@@ -48,6 +56,15 @@ enum class solve_result : int { unknown = 0, satisfiable = 10, unsatisfiable = 2
 }
 
 using solver_clock = std::chrono::steady_clock;
+
+// What one solve call is given and reports, for traits that take it (a
+// `static int solve(Solver&, solve_controls&)` in solver_traits).
+struct solve_controls {
+  std::optional<solver_clock::time_point> deadline;
+  const std::atomic<bool>* stop = nullptr;    // true: stop the search (read during it)
+  std::optional<std::int64_t> conflict_limit;  // for this call only
+  std::uint64_t conflicts = 0;                 // out: conflicts of the call (learned clauses)
+};
 
 // The members an IPASIR-style solver object has.
 template <class Solver>
@@ -120,6 +137,7 @@ struct solver_statistics {
   std::uint64_t assumptions = 0;  // literals assumed
   std::uint64_t solves = 0;       // solve calls
   double solve_seconds = 0;       // wall time spent in solve calls
+  std::uint64_t conflicts = 0;    // conflicts, where the traits report them
 };
 
 template <class Solver>
@@ -176,7 +194,15 @@ class solver_sink {
     stats_.assumptions += pending_.size();
     pending_.clear();
     const auto start = solver_clock::now();
-    const int code = traits::solve(*solver_, deadline_);
+    int code = 0;
+    if constexpr (requires(solve_controls& c) { traits::solve(*solver_, c); }) {
+      solve_controls controls{deadline_, stop_, conflict_limit_, 0};
+      code = traits::solve(*solver_, controls);
+      stats_.conflicts += controls.conflicts;
+    } else if (stop_ == nullptr || !stop_->load(std::memory_order_relaxed)) {
+      code = traits::solve(*solver_, deadline_);
+    }
+    conflict_limit_.reset();
     stats_.solve_seconds += std::chrono::duration<double>(solver_clock::now() - start).count();
     switch (code) {
       case 10: state_ = solve_result::satisfiable; break;
@@ -243,6 +269,26 @@ class solver_sink {
   }
   [[nodiscard]] std::optional<solver_clock::time_point> deadline() const noexcept { return deadline_; }
 
+  // The search stops (answers unknown) once *flag is true; nullptr: no flag.
+  // The flag must outlive the solve calls made while it is set.
+  void set_stop_flag(const std::atomic<bool>* flag) noexcept { stop_ = flag; }
+  [[nodiscard]] const std::atomic<bool>* stop_flag() const noexcept { return stop_; }
+  // At most this many conflicts in the next solve call (then unknown), where
+  // the traits can limit them; otherwise ignored.
+  void set_conflict_limit(std::int64_t conflicts) noexcept { conflict_limit_ = conflicts; }
+  // The value decisions on l's variable try first: l true. A hint only.
+  void set_phase(literal l) {
+    check(l);
+    if constexpr (requires { traits::phase(*solver_, 1); }) traits::phase(*solver_, l.dimacs());
+  }
+  void clear_phase(literal l) {
+    check(l);
+    if constexpr (requires { traits::unphase(*solver_, 1); }) traits::unphase(*solver_, l.var());
+  }
+  [[nodiscard]] static constexpr bool has_phases() noexcept {
+    return requires(Solver& s) { traits::phase(s, 1); };
+  }
+
   [[nodiscard]] solve_result last_result() const noexcept { return state_; }
   [[nodiscard]] std::int32_t max_variable() const noexcept { return max_variable_; }
   [[nodiscard]] const solver_statistics& statistics() const noexcept { return stats_; }
@@ -266,6 +312,8 @@ class solver_sink {
   std::int32_t max_variable_ = 0;
   solver_statistics stats_;
   std::vector<literal> pending_;  // assumptions for the next solve call
+  const std::atomic<bool>* stop_ = nullptr;
+  std::optional<std::int64_t> conflict_limit_;
 };
 
 }  // namespace clausewright
