@@ -37,13 +37,11 @@ selection_policy policy_from_name(const std::string& name) {
 CLI::Validator budget_check() {
   return CLI::Validator(
       [](std::string& text) {
-        const std::string expected =
-            "expected a clause budget from 1 to " + std::to_string(max_clause_budget) + ", found '" + text + "'";
-        if (text.empty() || text.size() > 16 || text.find_first_not_of("0123456789") != std::string::npos)
-          return expected;
-        const std::uint64_t value = std::stoull(text);
-        if (value == 0 || value > max_clause_budget) return expected;
-        return std::string();
+        const bool digits =
+            !text.empty() && text.size() <= 16 && text.find_first_not_of("0123456789") == std::string::npos;
+        const std::uint64_t value = digits ? std::stoull(text) : 0;
+        if (value != 0 && value <= max_clause_budget) return std::string();
+        return "expected a clause budget from 1 to " + std::to_string(max_clause_budget) + ", found '" + text + "'";
       },
       "N", "clause budget");
 }

@@ -133,7 +133,7 @@ inline void remove_pending_temporary() noexcept {
     link.resize(static_cast<std::size_t>(n));
     if (link.empty() || link.front() != '/') {
       const auto slash = at.rfind('/');
-      link = (slash == std::string::npos ? std::string() : at.substr(0, slash + 1)) + link;
+      if (slash != std::string::npos) link.insert(0, at, 0, slash + 1);
     }
     at = std::move(link);
   }
