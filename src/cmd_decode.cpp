@@ -103,7 +103,7 @@ int run_decode(const decode_request& r) {
     answer = read_solver_output(in, m.variables());
   }
   const auto status_json = [&answer] {
-    return answer.status == answer_status::none ? json(nullptr) : json(std::string(to_string(answer.status)));
+    return answer.status == answer_status::none ? json(nullptr) : json(std::string(status_name(answer.status)));
   };
   // Without an assignment: the status and nulls where the values would be.
   const auto no_assignment_json = [&] {

@@ -28,7 +28,7 @@ enum class answer_status { none, satisfiable, unsatisfiable, optimum, unknown };
 
 // The status as `solve` names it ("OPTIMUM FOUND" is "optimal"); empty for
 // an answer without an s line.
-[[nodiscard]] constexpr std::string_view to_string(answer_status s) noexcept {
+[[nodiscard]] constexpr std::string_view status_name(answer_status s) noexcept {
   switch (s) {
     case answer_status::none: return "";
     case answer_status::satisfiable: return "satisfiable";

@@ -120,7 +120,8 @@ gen_model generate(std::uint64_t seed, bool soft) {
     }
     c.rel = relations[pick(0, 2)];
     c.bound = pick(-1, 4);
-    if (soft && i % 3 == 2) c.weight = pick(1, 9);
+    const int weight = pick(1, 9);  // drawn either way: the soft model has the hard one's terms
+    if (soft && i % 3 == 2) c.weight = weight;
     if (i % 2 == 0) c.name = "c" + std::to_string(i);
     c.line = line++;
     text += "  {";
@@ -134,7 +135,7 @@ gen_model generate(std::uint64_t seed, bool soft) {
   }
   text += "],\n\"objective\": [";
   for (int v = 1; v <= g.variables; ++v) {
-    if (pick(0, 1) == 0) continue;
+    if (pick(0, 1) == 0 && v > 1) continue;
     g.objective.push_back({pick(-2, 5), v, pick(0, 2) == 0});
     text += (g.objective.size() > 1 ? ", " : "") + term_json(g.objective.back());
   }
