@@ -47,6 +47,13 @@ std::string quote(const std::string& s) {
   return q + "'";
 }
 
+// "prefix" + n, appended: g++ 12 warns falsely (-Wrestrict) on the sum.
+std::string with_number(const char* prefix, long long n) {
+  std::string s = prefix;
+  s += std::to_string(n);
+  return s;
+}
+
 // --- a generated model, kept on our side for the evaluation --------------------------
 
 struct gen_term {
@@ -91,7 +98,7 @@ bool holds(const gen_constraint& c, const std::vector<bool>& values) {
 }
 
 std::string term_json(const gen_term& t) {
-  return "[" + std::to_string(t.coefficient) + ", \"" + (t.negated ? "~" : "") + "v" + std::to_string(t.var) + "\"]";
+  return with_number("[", t.coefficient) + ", \"" + (t.negated ? "~" : "") + with_number("v", t.var) + "\"]";
 }
 
 // One constraint per line, so the line of each is known here. Every third
@@ -104,7 +111,10 @@ gen_model generate(std::uint64_t seed, bool soft) {
   const int count = pick(3, 6);
   const char* relations[] = {"<=", ">=", "="};
   std::string text = "{\n\"format\": \"clausewright-model\",\n\"version\": 1,\n\"variables\": [";
-  for (int v = 1; v <= g.variables; ++v) text += (v > 1 ? ", \"v" : "\"v") + std::to_string(v) + "\"";
+  for (int v = 1; v <= g.variables; ++v) {
+    text += with_number(v > 1 ? ", \"v" : "\"v", v);
+    text += '"';
+  }
   text += "],\n\"constraints\": [\n";
   int line = 6;
   for (int i = 0; i < count; ++i) {
@@ -122,14 +132,15 @@ gen_model generate(std::uint64_t seed, bool soft) {
     c.bound = pick(-1, 4);
     const int weight = pick(1, 9);  // drawn either way: the soft model has the hard one's terms
     if (soft && i % 3 == 2) c.weight = weight;
-    if (i % 2 == 0) c.name = "c" + std::to_string(i);
+    if (i % 2 == 0) c.name = with_number("c", i);
     c.line = line++;
     text += "  {";
     if (!c.name.empty()) text += "\"name\": \"" + c.name + "\", ";
     text += "\"type\": \"linear\", \"terms\": [";
     for (std::size_t t = 0; t < c.terms.size(); ++t) text += (t ? ", " : "") + term_json(c.terms[t]);
-    text += "], \"relation\": \"" + c.rel + "\", \"bound\": " + std::to_string(c.bound);
-    if (c.weight != 0) text += ", \"weight\": " + std::to_string(c.weight);
+    text += "], \"relation\": \"" + c.rel + "\", \"bound\": ";
+    text += std::to_string(c.bound);
+    if (c.weight != 0) text += with_number(", \"weight\": ", c.weight);
     text += i + 1 < count ? "},\n" : "}\n";
     g.constraints.push_back(std::move(c));
   }
@@ -180,7 +191,10 @@ class decode_cli : public ::testing::Test {
 std::string answer_of(const std::vector<bool>& values, const char* status = "s SATISFIABLE\n") {
   std::string text = status;
   text += "v";
-  for (std::size_t v = 1; v < values.size(); ++v) text += " " + std::string(values[v] ? "" : "-") + std::to_string(v);
+  for (std::size_t v = 1; v < values.size(); ++v) {
+    text += values[v] ? " " : " -";
+    text += std::to_string(v);
+  }
   return text + " 0\n";
 }
 
@@ -190,7 +204,7 @@ void check_report(const gen_model& g, const std::vector<bool>& values, const jso
   SCOPED_TRACE(context);
   ASSERT_TRUE(doc.contains("assignment")) << doc.dump();
   for (int v = 1; v <= g.variables; ++v)
-    EXPECT_EQ(doc["assignment"].at("v" + std::to_string(v)).get<bool>(), values[static_cast<std::size_t>(v)])
+    EXPECT_EQ(doc["assignment"].at(with_number("v", v)).get<bool>(), values[static_cast<std::size_t>(v)])
         << "v" << v;
   EXPECT_EQ(doc["assignment"].size(), static_cast<std::size_t>(g.variables));
   EXPECT_EQ(doc["objective"].get<std::int64_t>(), sum_of(g.objective, values));
@@ -253,7 +267,7 @@ TEST_F(decode_cli, JsonAgreesWithCadicalAndWithTheEvaluation) {
   int solved = 0;
   int flips_with_violations = 0;
   for (std::uint64_t seed = 1; seed <= 30; ++seed) {
-    SCOPED_TRACE("seed " + std::to_string(seed));
+    SCOPED_TRACE(with_number("seed ", seed));
     const gen_model g = generate(seed, false);
     const fs::path model = write("m.json", g.text);
     const fs::path cnf = dir_ / "m.cnf";
@@ -289,7 +303,7 @@ TEST_F(decode_cli, JsonAgreesWithCadicalAndWithTheEvaluation) {
     // --true-only: the names set true, in JSON and as plain lines.
     std::vector<std::string> true_names;
     for (int v = 1; v <= g.variables; ++v)
-      if (values[static_cast<std::size_t>(v)]) true_names.push_back("v" + std::to_string(v));
+      if (values[static_cast<std::size_t>(v)]) true_names.push_back(with_number("v", v));
     const run_result t = run("decode --json --true-only " + quote(model.string()) + " " + quote(answer.string()));
     ASSERT_EQ(t.code, 0) << t.err;
     const json tdoc = json::parse(t.out);
@@ -315,7 +329,7 @@ TEST_F(decode_cli, JsonAgreesWithCadicalAndWithTheEvaluation) {
       EXPECT_EQ(w.code, hard_broken ? 1 : 0) << w.out << w.err;
       const json wdoc = json::parse(w.out);
       EXPECT_TRUE(wdoc["status"].is_null());  // no s line
-      check_report(gs, flipped, wdoc, soft_model, "flip of v" + std::to_string(flip));
+      check_report(gs, flipped, wdoc, soft_model, with_number("flip of v", flip));
       if (!wdoc["violated"].empty()) ++flips_with_violations;
     }
   }
