@@ -265,8 +265,9 @@ void check_report(const gen_model& g, const std::vector<bool>& values, const jso
 // evaluation here.
 TEST_F(decode_cli, JsonAgreesWithCadicalAndWithTheEvaluation) {
   int solved = 0;
+  int refuted = 0;
   int flips_with_violations = 0;
-  for (std::uint64_t seed = 1; seed <= 30; ++seed) {
+  for (std::uint64_t seed = 1; seed <= 60; ++seed) {
     SCOPED_TRACE(with_number("seed ", seed));
     const gen_model g = generate(seed, false);
     const fs::path model = write("m.json", g.text);
@@ -280,6 +281,15 @@ TEST_F(decode_cli, JsonAgreesWithCadicalAndWithTheEvaluation) {
     ASSERT_EQ(problem, nullptr) << problem;
     const int status = solver.solve();
     if (status == 20) {
+      ++refuted;
+      // Brute force agrees: no assignment satisfies every constraint.
+      for (std::uint32_t bits = 0; bits < (1U << g.variables); ++bits) {
+        std::vector<bool> all(static_cast<std::size_t>(g.variables) + 1, false);
+        for (int v = 1; v <= g.variables; ++v) all[static_cast<std::size_t>(v)] = ((bits >> (v - 1)) & 1U) != 0;
+        bool every = true;
+        for (const gen_constraint& c : g.constraints) every = every && holds(c, all);
+        ASSERT_FALSE(every) << "CaDiCaL answered unsatisfiable, but assignment " << bits << " satisfies the model";
+      }
       const run_result d = run("decode --json " + quote(model.string()) + " " +
                                quote(write("unsat.txt", "s UNSATISFIABLE\n").string()));
       EXPECT_EQ(d.code, 1);
@@ -335,6 +345,7 @@ TEST_F(decode_cli, JsonAgreesWithCadicalAndWithTheEvaluation) {
   }
   // The seeds exercise both answers and violated constraints.
   EXPECT_GT(solved, 10);
+  EXPECT_GT(refuted, 0);
   EXPECT_GT(flips_with_violations, 20);
 }
 

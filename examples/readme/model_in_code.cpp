@@ -24,6 +24,7 @@ int main() {
   }
   const auto all_ones = [](const std::vector<cw::literal>& lits) {
     std::vector<cw::term> terms;
+    terms.reserve(lits.size());
     for (const cw::literal l : lits) terms.push_back({1, l});
     return terms;
   };
