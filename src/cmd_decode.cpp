@@ -58,9 +58,12 @@ json number(wide_int v) {
 wide_int amount(const violation& v) {
   const wide_int bound = v.bound;
   switch (v.rel) {
-    case relation::le: return v.left_side - bound;
-    case relation::ge: return bound - v.left_side;
-    case relation::eq: return v.left_side > bound ? v.left_side - bound : bound - v.left_side;
+    case relation::le:
+      return v.left_side - bound;
+    case relation::ge:
+      return bound - v.left_side;
+    case relation::eq:
+      return v.left_side > bound ? v.left_side - bound : bound - v.left_side;
   }
   return 0;
 }
@@ -137,8 +140,10 @@ int run_decode(const decode_request& r) {
     throw error(error_id::parse, "the solver output " + r.answer + " has no 'v' lines and no literals");
   const std::uint64_t missing = static_cast<std::uint64_t>(m.variables()) - answer.given;
   if (missing != 0)
-    std::fprintf(stderr, "clausewright: note: %llu of the model's %d variables have no value in the answer; "
-                 "they are taken as false\n", static_cast<unsigned long long>(missing), m.variables());
+    std::fprintf(stderr,
+                 "clausewright: note: %llu of the model's %d variables have no value in the answer; "
+                 "they are taken as false\n",
+                 static_cast<unsigned long long>(missing), m.variables());
   const auto value = [&answer](std::int32_t v) { return answer.values[static_cast<std::size_t>(v)] > 0; };
 
   const std::vector<violation> violated = m.check(value);
@@ -219,8 +224,7 @@ int run_decode(const decode_request& r) {
   if (hard_violated == 0)
     check += "all " + std::to_string(m.hard_constraints()) + " constraints hold\n";
   else
-    check += std::to_string(hard_violated) + " of " + std::to_string(m.hard_constraints()) +
-             " constraints violated\n";
+    check += std::to_string(hard_violated) + " of " + std::to_string(m.hard_constraints()) + " constraints violated\n";
   if (r.true_only)
     std::fputs(check.c_str(), stderr);
   else

@@ -30,11 +30,16 @@ enum class answer_status { none, satisfiable, unsatisfiable, optimum, unknown };
 // an answer without an s line.
 [[nodiscard]] constexpr std::string_view status_name(answer_status s) noexcept {
   switch (s) {
-    case answer_status::none: return "";
-    case answer_status::satisfiable: return "satisfiable";
-    case answer_status::unsatisfiable: return "unsatisfiable";
-    case answer_status::optimum: return "optimal";
-    case answer_status::unknown: return "unknown";
+    case answer_status::none:
+      return "";
+    case answer_status::satisfiable:
+      return "satisfiable";
+    case answer_status::unsatisfiable:
+      return "unsatisfiable";
+    case answer_status::optimum:
+      return "optimal";
+    case answer_status::unknown:
+      return "unknown";
   }
   return "";
 }

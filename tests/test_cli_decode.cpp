@@ -204,8 +204,7 @@ void check_report(const gen_model& g, const std::vector<bool>& values, const jso
   SCOPED_TRACE(context);
   ASSERT_TRUE(doc.contains("assignment")) << doc.dump();
   for (int v = 1; v <= g.variables; ++v)
-    EXPECT_EQ(doc["assignment"].at(with_number("v", v)).get<bool>(), values[static_cast<std::size_t>(v)])
-        << "v" << v;
+    EXPECT_EQ(doc["assignment"].at(with_number("v", v)).get<bool>(), values[static_cast<std::size_t>(v)]) << "v" << v;
   EXPECT_EQ(doc["assignment"].size(), static_cast<std::size_t>(g.variables));
   EXPECT_EQ(doc["objective"].get<std::int64_t>(), sum_of(g.objective, values));
   std::size_t hard = 0;
@@ -253,7 +252,9 @@ void check_report(const gen_model& g, const std::vector<bool>& values, const jso
     EXPECT_EQ(e["bound"].get<std::int64_t>(), c.bound);
     const std::int64_t left = sum_of(c.terms, values);
     EXPECT_EQ(e["left_side"].get<std::int64_t>(), left);
-    const std::int64_t off = c.rel == "<=" ? left - c.bound : c.rel == ">=" ? c.bound - left : std::llabs(left - c.bound);
+    const std::int64_t off = c.rel == "<="   ? left - c.bound
+                             : c.rel == ">=" ? c.bound - left
+                                             : std::llabs(left - c.bound);
     EXPECT_GT(off, 0);
     EXPECT_EQ(e["amount"].get<std::int64_t>(), off);
   }
@@ -290,8 +291,8 @@ TEST_F(decode_cli, JsonAgreesWithCadicalAndWithTheEvaluation) {
         for (const gen_constraint& c : g.constraints) every = every && holds(c, all);
         ASSERT_FALSE(every) << "CaDiCaL answered unsatisfiable, but assignment " << bits << " satisfies the model";
       }
-      const run_result d = run("decode --json " + quote(model.string()) + " " +
-                               quote(write("unsat.txt", "s UNSATISFIABLE\n").string()));
+      const run_result d =
+          run("decode --json " + quote(model.string()) + " " + quote(write("unsat.txt", "s UNSATISFIABLE\n").string()));
       EXPECT_EQ(d.code, 1);
       const json doc = json::parse(d.out);
       EXPECT_EQ(doc["status"].get<std::string>(), "unsatisfiable");
@@ -352,8 +353,8 @@ TEST_F(decode_cli, JsonAgreesWithCadicalAndWithTheEvaluation) {
 TEST_F(decode_cli, JsonForUnknownAndOptimumAnswers) {
   const gen_model g = generate(7, true);
   const fs::path model = write("m.json", g.text);
-  const run_result u = run("decode --json " + quote(model.string()) + " " +
-                           quote(write("u.txt", "s UNKNOWN\nv 1 2 0\n").string()));
+  const run_result u =
+      run("decode --json " + quote(model.string()) + " " + quote(write("u.txt", "s UNKNOWN\nv 1 2 0\n").string()));
   EXPECT_EQ(u.code, 3);
   const json udoc = json::parse(u.out);
   EXPECT_EQ(udoc["status"].get<std::string>(), "unknown");

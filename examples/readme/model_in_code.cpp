@@ -41,8 +41,7 @@ int main() {
   const auto value = [&solver](std::int32_t v) { return solver.value(cw::lit(v)); };
   // check() lists every violated constraint: none here.
   if (!m.check(value).empty()) return 1;
-  for (std::int32_t v = 1; v <= m.variables(); ++v)
-    std::printf("%s = %d\n", m.name_of(v).c_str(), value(v) ? 1 : 0);
+  for (std::int32_t v = 1; v <= m.variables(); ++v) std::printf("%s = %d\n", m.name_of(v).c_str(), value(v) ? 1 : 0);
   std::printf("objective %s\n", cw::to_string(m.objective_value(value)).c_str());
   // The same on our own terms: two on each shift, cy on at most one.
   int on_early = 0;
