@@ -17,6 +17,7 @@
 #include <cstdint>
 #include <optional>
 #include <string>
+#include <string_view>
 #include <vector>
 
 #include "input.hpp"
@@ -24,6 +25,24 @@
 namespace clausewright::tool {
 
 enum class answer_status { none, satisfiable, unsatisfiable, optimum, unknown };
+
+// The status as `solve` names it ("OPTIMUM FOUND" is "optimal"); empty for
+// an answer without an s line.
+[[nodiscard]] constexpr std::string_view status_name(answer_status s) noexcept {
+  switch (s) {
+    case answer_status::none:
+      return "";
+    case answer_status::satisfiable:
+      return "satisfiable";
+    case answer_status::unsatisfiable:
+      return "unsatisfiable";
+    case answer_status::optimum:
+      return "optimal";
+    case answer_status::unknown:
+      return "unknown";
+  }
+  return "";
+}
 
 struct solver_answer {
   answer_status status = answer_status::none;
