@@ -3,6 +3,9 @@
 //
 //   generate_models bin-packing ITEMS SEED      items of weight 1..40 into bins of capacity 100,
 //                                               exactly one bin per item, fewest bins used
+//   generate_models bins ITEMS BINS SEED        items of weight 1..1000 into BINS bins of equal
+//                                               capacity (10% above the average load), exactly
+//                                               one bin per item (feasibility, no objective)
 //   generate_models knapsack ITEMS SEED         one capacity, weights 1..1000, most value
 //   generate_models rota PEOPLE SEED            7*3 shifts a week for PEOPLE people: each shift
 //                                               needs PEOPLE/4 people, each person at most 6
@@ -96,6 +99,30 @@ int bin_packing(std::int64_t items, std::mt19937_64& rng) {
   return 0;
 }
 
+int fixed_bins(std::int64_t items, std::int64_t bins, std::mt19937_64& rng) {
+  std::uniform_int_distribution<std::int64_t> weight(1, 1000);
+  std::vector<std::int64_t> w(static_cast<std::size_t>(items));
+  std::int64_t total = 0;
+  for (auto& x : w) total += x = weight(rng);
+  const std::int64_t capacity = total * 11 / (10 * bins) + 1;
+  auto x = [&](std::int64_t i, std::int64_t b) { return i * bins + b + 1; };
+  header(items * bins, static_cast<std::uint64_t>(items + bins));
+  opb_out out;
+  out.comment("bin packing: ", items, " items, ", bins, " bins\n");
+  for (std::int64_t i = 0; i < items; ++i) {
+    for (std::int64_t b = 0; b < bins; ++b) out.term(1, x(i, b));
+    out.end("=", 1);
+    if (out.text.size() > (1U << 20)) out.flush();
+  }
+  for (std::int64_t b = 0; b < bins; ++b) {
+    for (std::int64_t i = 0; i < items; ++i) out.term(w[static_cast<std::size_t>(i)], x(i, b));
+    out.end("<=", capacity);
+    if (out.text.size() > (1U << 20)) out.flush();
+  }
+  out.flush();
+  return 0;
+}
+
 int knapsack(std::int64_t items, std::mt19937_64& rng) {
   std::uniform_int_distribution<std::int64_t> weight(1, 1000), value(1, 1000);
   header(items, 1);
@@ -147,8 +174,20 @@ int rota(std::int64_t people, std::mt19937_64& rng) {
 }  // namespace
 
 int main(int argc, char** argv) {
+  if (argc == 5 && std::string_view(argv[1]) == "bins") {
+    const std::int64_t items = std::atoll(argv[2]);
+    const std::int64_t bins = std::atoll(argv[3]);
+    std::mt19937_64 rng(std::strtoull(argv[4], nullptr, 10));
+    if (items <= 0 || bins <= 0) {
+      std::fprintf(stderr, "generate_models: ITEMS and BINS must be positive\n");
+      return 2;
+    }
+    return fixed_bins(items, bins, rng);
+  }
   if (argc != 4) {
-    std::fprintf(stderr, "usage: generate_models bin-packing|knapsack|rota SIZE SEED > model.opb\n");
+    std::fprintf(stderr,
+                 "usage: generate_models bin-packing|knapsack|rota SIZE SEED > model.opb\n"
+                 "       generate_models bins ITEMS BINS SEED > model.opb\n");
     return 2;
   }
   const std::string_view kind = argv[1];

@@ -20,7 +20,7 @@ int main() {
 
   cw::variable_pool pool(parcels * vans);  // fresh variables start at 13
   cw::cnf_buffer cnf;                       // in memory; any clause sink works
-  cw::encoder enc(cnf, pool);               // default selection policy: balanced
+  cw::encoder enc(cnf, pool);               // default selection policy: propagating
 
   for (int p = 0; p < parcels; ++p) enc.at_most_one({on(p, 0), on(p, 1)});
   for (int v = 0; v < vans; ++v) {

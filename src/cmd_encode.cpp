@@ -37,7 +37,7 @@ struct encode_request {
   std::string format;
   std::vector<std::string> methods;
   std::optional<std::int64_t> objective_bound;
-  std::string pick = "balanced";
+  std::string pick = std::string(to_string(default_policy));
   std::uint64_t budget = default_clause_budget;
   bool older_wcnf = false;
   bool comments = false;
@@ -174,7 +174,7 @@ model_encoding_summary write_wcnf(model_stream& in, byte_output& out, const mode
 int run_encode(const encode_request& r) {
   model_encoding_settings settings;
   settings.policy = policy_from_name(r.pick);
-  settings.methods = methods_from_names(r.methods);
+  apply_method_options(r.methods, settings);
   settings.options.full_equivalence = r.full_equivalence;
   settings.clause_budget = r.budget;
   settings.objective_bound = r.objective_bound;
@@ -242,17 +242,21 @@ void register_encode(CLI::App& app, command_context& context) {
                   "cnf or wcnf (default: wcnf when OUT ends in .wcnf, else cnf); CNF keeps the hard constraints only");
   // One name per --method: a vector option would otherwise swallow MODEL too.
   cmd->add_option("--method", r->methods,
-                  "Encode every constraint this method can encode with it (repeatable; the first that applies "
-                  "wins); the others follow the model's choice or the policy")
+                  "METHOD: encode every constraint this method can encode with it (repeatable; the first that "
+                  "applies wins); NAME=METHOD: the constraints named NAME (an fnmatch pattern such as 'cap*'; #3 "
+                  "is unnamed constraint 3) with METHOD, before the others; the rest follow the model's choice "
+                  "or the policy")
       ->allow_extra_args(false);
   cmd->add_option("--objective-bound", r->objective_bound, "Add \"objective <= B\" as a hard constraint");
-  cmd->add_option("--pick", r->pick, "Selection policy: smallest, smallest-arc-consistent, balanced (default)");
+  cmd->add_option("--pick", r->pick, "Selection policy: smallest, smallest-arc-consistent, balanced, propagating (default)");
   cmd->add_flag("--older-wcnf", r->older_wcnf, "WCNF with the older 'p wcnf V C TOP' header and weighted hard clauses");
   cmd->add_flag("--comments", r->comments,
                 "Write comment lines: the variable map (name and number), and per constraint its method and size");
   cmd->add_flag("--full-equivalence", r->full_equivalence,
                 "Define auxiliary variables in both directions (default: only the direction needed)");
-  cmd->add_option("--budget", r->budget, "Clause budget of each dry run when the policy measures methods (1 to 10^15)")
+  cmd->add_option("--budget", r->budget,
+                  "Clauses one constraint may have, picked or forced (1 to 10^15, default 50000000): a method past "
+                  "it is refused")
       ->check(budget_check());
   cmd->add_flag("--progress", r->progress, "Show the progress line on standard error even when it is not a terminal");
   cmd->add_flag("--no-progress", r->no_progress, "Never show the progress line");

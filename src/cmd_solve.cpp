@@ -73,45 +73,28 @@ struct solve_request {
   std::string search = "core-boosted";
   bool stats = false;
   std::vector<std::string> methods;
-  std::string pick = "balanced";
+  std::string pick = std::string(to_string(default_policy));
   std::string bound = "automatic";
 };
 
-// Where model_encoder writes: clauses into the solver, soft clauses (the
-// objective's terms and the relaxation units of soft constraints, as the
-// WCNF output has them) into the objective the search minimises.
+// Where model_encoder writes: clauses into the solver, the objective's terms
+// and the costs of soft constraints (as objective terms, no detour through
+// soft clauses) into the objective the search minimises.
 class solving_sink {
  public:
-  solving_sink(cadical_solver& solver, variable_pool& pool, objective& cost)
-      : solver_(solver), pool_(pool), cost_(cost) {}
+  solving_sink(cadical_solver& solver, objective& cost) : solver_(solver), cost_(cost) {}
 
   void add_clause(std::span<const literal> clause) { solver_.add_clause(clause); }
-  void add_soft_clause(std::int64_t weight, std::span<const literal> clause) {
-    if (clause.empty()) {
-      cost_.add_constant(weight);
-    } else if (clause.size() == 1) {
-      cost_.add(weight, ~clause[0]);
-    } else {
-      // r -> clause, and weight when r is false.
-      const literal r = pool_.fresh();
-      scratch_.assign(clause.begin(), clause.end());
-      scratch_.push_back(~r);
-      solver_.add_clause(scratch_);
-      cost_.add(weight, ~r);
-    }
-  }
+  void add_objective_term(std::int64_t coefficient, literal l) { cost_.add(coefficient, l); }
 
  private:
   cadical_solver& solver_;
-  variable_pool& pool_;
   objective& cost_;
-  std::vector<literal> scratch_;
 };
 
 // Runs `clausewright stats` on the model, onto standard error when asked.
 void print_stats(const solve_request& r, bool to_stderr) {
-  if (r.model == "-")
-    throw error(error_id::usage, "--stats reads the model twice: give a file, not standard input");
+  if (r.model == "-") throw error(error_id::usage, "--stats reads the model twice: give a file, not standard input");
   std::vector<std::string> args{"clausewright", "stats", r.model, "--pick", r.pick};
   for (const auto& m : r.methods) {
     args.emplace_back("--method");
@@ -234,8 +217,35 @@ class progress_lines {
 };
 
 std::int64_t to_int64(wide_int v, const char* what) {
-  if (v > INT64_MAX || v < INT64_MIN) throw error(error_id::overflow, std::string(what) + " overflows the 64-bit range");
+  if (v > INT64_MAX || v < INT64_MIN)
+    throw error(error_id::overflow, std::string(what) + " overflows the 64-bit range");
   return static_cast<std::int64_t>(v);
+}
+
+// The answer when the time limit ends the run before the solver is asked.
+int report_unknown(const solve_request& r, const model& m, solver_clock::time_point started) {
+  const double seconds = std::chrono::duration<double>(solver_clock::now() - started).count();
+  std::fprintf(stderr, "clausewright: unknown after 0 solver calls, %.3f s\n", seconds);
+  if (r.as_json) {
+    json out;
+    out["status"] = "unknown";
+    out["objective"] = nullptr;
+    out["lower_bound"] = nullptr;
+    if (m.has_objective()) out["objective_terms"] = nullptr;
+    if (m.soft_constraints() != 0) {
+      out["soft_cost"] = nullptr;
+      out["soft_unsatisfied"] = nullptr;
+    }
+    out["assignment"] = nullptr;
+    out["search"] = r.search;
+    out["solutions"] = 0;
+    out["solver_calls"] = 0;
+    out["seconds"] = seconds;
+    std::printf("%s\n", out.dump(2).c_str());
+  } else {
+    std::fputs("status unknown\n", stdout);
+  }
+  return exit_success;
 }
 
 int run_solve(const solve_request& r) {
@@ -248,7 +258,7 @@ int run_solve(const solve_request& r) {
   }
   model_encoding_settings settings;
   settings.policy = policy_from_name(r.pick);
-  settings.methods = methods_from_names(r.methods);
+  apply_method_options(r.methods, settings);
 
   model m;
   {
@@ -260,9 +270,19 @@ int run_solve(const solve_request& r) {
   cadical_solver solver;
   variable_pool pool;
   objective cost;
-  solving_sink sink(solver, pool, cost);
-  const model_encoding_summary summary = encode_model(m, sink, pool, settings);
-  cost.add_constant(to_int64(summary.objective_offset, "the objective's constant"));
+  solving_sink sink(solver, cost);
+  // The time limit covers the encoding too: the pipeline stops at the deadline.
+  if (r.time_limit >= 0 && r.time_limit <= 100.0 * 365 * 24 * 3600)
+    settings.deadline =
+        started + std::chrono::duration_cast<solver_clock::duration>(std::chrono::duration<double>(r.time_limit));
+  model_encoding_summary summary;
+  try {
+    summary = encode_model(m, sink, pool, settings);
+  } catch (const error& e) {
+    if (e.id() != error_id::time_limit) throw;
+    std::fprintf(stderr, "clausewright: the time limit passed while encoding (%s)\n", e.what());
+    return report_unknown(r, m, started);
+  }
   const bool optimising = m.has_objective() || m.soft_constraints() != 0;
   std::fprintf(stderr, "clausewright: %llu constraints into CaDiCaL: %llu clauses, %d variables (%d of the model)\n",
                static_cast<unsigned long long>(summary.constraints),
@@ -281,7 +301,8 @@ int run_solve(const solve_request& r) {
 #endif
   if (r.time_limit >= 0) {
     const auto spent = std::chrono::duration<double>(solver_clock::now() - started);
-    options.time_limit = std::max(std::chrono::duration<double>(r.time_limit) - spent, std::chrono::duration<double>(0));
+    options.time_limit =
+        std::max(std::chrono::duration<double>(r.time_limit) - spent, std::chrono::duration<double>(0));
   }
   options.record_variables = m.variables();
   options.bound.method = *bound;
@@ -346,10 +367,10 @@ int run_solve(const solve_request& r) {
     json out;
     out["status"] = status;
     out["objective"] = has_solution && optimising ? json(*result.objective) : json(nullptr);
-    out["lower_bound"] = optimising && result.status != optimize_status::unsatisfiable &&
-                                 result.status != optimize_status::unknown
-                             ? json(result.lower_bound)
-                             : json(nullptr);
+    out["lower_bound"] =
+        optimising && result.status != optimize_status::unsatisfiable && result.status != optimize_status::unknown
+            ? json(result.lower_bound)
+            : json(nullptr);
     if (m.has_objective())
       out["objective_terms"] = has_solution ? json(to_int64(decoded.objective_terms, "the objective")) : json(nullptr);
     if (m.soft_constraints() != 0) {
@@ -438,8 +459,9 @@ void register_solve(CLI::App& app, command_context& context) {
   cmd->add_flag("--stats", r->stats,
                 "First print the size table of every applicable encoding per constraint and the picks (as "
                 "`clausewright stats`)");
-  cmd->add_option("--method", r->methods, "As for encode: the methods to use where they apply (repeatable)");
-  cmd->add_option("--pick", r->pick, "Selection policy: smallest, smallest-arc-consistent, balanced (default)");
+  cmd->add_option("--method", r->methods, "As for encode: METHOD or NAME=METHOD (repeatable)")->allow_extra_args(false);
+  cmd->add_option("--pick", r->pick,
+                  "Selection policy: smallest, smallest-arc-consistent, balanced, propagating (default)");
   cmd->add_option("--bound", r->bound,
                   "How the objective is bounded: automatic (default), totalizer, sequential-counter, "
                   "generalized-totalizer, sequential-weight-counter, bdd, adder, reencode");

@@ -1,16 +1,19 @@
 // clausewright stats MODEL [--json] [--pick POLICY] [--method NAME]... [--budget N]
 //
 // For every constraint and every method that can encode it: the exact size
-// of the encoding, measured by a dry run of the very routine `encode` uses
-// into a counting sink (so the numbers are what `encode --method NAME`
-// writes); the method the policy picks; and per model the totals for the
-// picked methods and under each single method. A dry run that passes the
-// clause budget is stopped and reported as over budget. Schema:
+// of the encoding, from the pipeline's measurer (a closed form, or a dry run
+// of the very routine `encode` uses into a counting sink, so the numbers are
+// what `encode --method NAME` writes); the method the policy picks; and per
+// model the totals for the picked methods and under each single method.
+// Constraints of one shape are measured once. A dry run is stopped where
+// its method can no longer be picked (but not before `stats_floor` clauses)
+// or at the clause budget, and is shown as "more than N clauses"; totals
+// with such a method are lower bounds and say so. Schema:
 // docs/stats-format.md.
 #include <cstdio>
 #include <map>
-#include <optional>
 #include <memory>
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -30,18 +33,22 @@ using json = nlohmann::ordered_json;
 struct stats_request {
   std::string model;
   bool as_json = false;
-  std::string pick = "balanced";
+  std::string pick = std::string(to_string(default_policy));
   std::vector<std::string> methods;
   std::uint64_t budget = default_clause_budget;
   bool full_equivalence = false;
 };
 
+// Dry runs of the statistics go on to this many clauses at least, so small
+// constraints show every method in full.
+constexpr std::uint64_t stats_floor = std::uint64_t{1} << 16;
+
 struct method_row {
   method_id id = method_id::pairwise;
-  encoding_size size;
-  bool over_budget = false;
+  encoding_size size;        // when over_budget: more than size.clauses clauses
+  bool over_budget = false;  // stopped (cannot be picked, or past the budget)
   double seconds = 0;
-  std::uint64_t bytes = 0;
+  std::optional<std::uint64_t> bytes;  // DIMACS bytes (not counted past the floor)
 };
 
 struct constraint_row {
@@ -57,15 +64,15 @@ struct constraint_row {
   std::int64_t weight = 0;
   std::vector<method_row> methods;
   std::optional<method_id> picked;  // empty: every applicable method passed the budget
-  bool trivial = false;  // a constant or a single clause: every method writes the same
+  bool trivial = false;             // a constant or a single clause: every method writes the same
 };
 
 // A model's size as one encoding would write it.
 struct total {
-  std::uint64_t vars = 0;      // auxiliary variables of the constraints (relaxation literals included)
-  std::uint64_t clauses = 0;   // clauses of the constraints (soft units of soft constraints included)
-  std::uint64_t literals = 0;  // literal occurrences in them
-  std::uint64_t hard_vars = 0;     // the part of hard constraints (what CNF output has)
+  std::uint64_t vars = 0;       // auxiliary variables of the constraints (relaxation literals included)
+  std::uint64_t clauses = 0;    // clauses of the constraints (soft units of soft constraints included)
+  std::uint64_t literals = 0;   // literal occurrences in them
+  std::uint64_t hard_vars = 0;  // the part of hard constraints (what CNF output has)
   std::uint64_t hard_clauses = 0;
   std::uint64_t fallbacks = 0;  // constraints the method cannot encode, encoded as the policy says
   bool over_budget = false;
@@ -82,27 +89,18 @@ struct total {
   }
 };
 
-// Clauses, literals and DIMACS bytes of everything written into it.
-class sizing_sink {
+// DIMACS bytes of everything written into it.
+class byte_counting_sink {
  public:
-  explicit sizing_sink(std::uint64_t clause_limit) : inner_(clause_limit) {}
   void add_clause(std::span<const literal> clause) {
-    inner_.add_clause(clause);
-    count_bytes(clause, 0);
+    bytes_ += 2;  // "0\n"
+    for (const literal l : clause) bytes_ += decimal_width(l.dimacs()) + 1;
   }
-  void add_soft_clause(std::int64_t weight, std::span<const literal> clause) {
-    inner_.add_soft_clause(weight, clause);
-    count_bytes(clause, 0);
-  }
-  [[nodiscard]] const measuring_sink& inner() const noexcept { return inner_; }
+  // As in CNF: the clause alone.
+  void add_soft_clause(std::int64_t /*weight*/, std::span<const literal> clause) { add_clause(clause); }
   [[nodiscard]] std::uint64_t bytes() const noexcept { return bytes_; }
 
  private:
-  void count_bytes(std::span<const literal> clause, std::uint64_t prefix) {
-    bytes_ += prefix + 2;  // "0\n"
-    for (const literal l : clause) bytes_ += decimal_width(l.dimacs()) + 1;
-  }
-  measuring_sink inner_;
   std::uint64_t bytes_ = 0;
 };
 
@@ -142,12 +140,9 @@ class stats_collector final : public model_handler {
     row.inputs = c.size();
     row.weight = v.weight;
     row.trivial = c.is_constant() || c.kind == constraint_kind::clause;
-    std::vector<method_measurement> measured;
-    for (const auto& m : method_table) {
-      if (!can_encode(m.id, c)) continue;
-      row.methods.push_back(measure(m.id, c, v.weight));
-      measured.push_back({m.id, row.methods.back().size, row.methods.back().over_budget, 0});
-    }
+    const std::vector<method_measurement>& measured = chooser_.measurements(pool_, c, settings_, stats_floor);
+    const bool cached = chooser_.last_cached();
+    for (const method_measurement& m : measured) row.methods.push_back(to_row(m, c, v.weight, cached));
     const auto row_of = [&row](method_id id) -> const method_row& {
       for (const auto& m : row.methods)
         if (m.id == id) return m;
@@ -157,7 +152,7 @@ class stats_collector final : public model_handler {
     // the budget instead of stopping there.
     const auto chosen = [&](const model_encoding_settings& s) -> std::optional<method_id> {
       try {
-        const std::optional<method_id> m = choose_method(v, c, s, pool_, &cache_);
+        const std::optional<method_id> m = choose_method(v, c, s, pool_, &chooser_);
         return m ? *m : pick(measured, s.policy, c);
       } catch (const error& e) {
         if (e.id() != error_id::over_budget) throw;
@@ -171,6 +166,7 @@ class stats_collector final : public model_handler {
       picked_.over_budget = true;
     }
     model_encoding_settings single = settings_;
+    single.method_rules.clear();
     for (auto& [id, t] : by_method_) {
       single.methods.assign(1, id);
       const std::optional<method_id> used = chosen(single);
@@ -182,7 +178,8 @@ class stats_collector final : public model_handler {
       if (*used != id && !row.trivial) ++t.fallbacks;
     }
     // Later constraints see the variables the picked method takes.
-    if (row.picked) (void)pool_.fresh_block(static_cast<std::int64_t>(row_of(*row.picked).size.variables));
+    if (row.picked && !row_of(*row.picked).over_budget)
+      (void)pool_.fresh_block(static_cast<std::int64_t>(row_of(*row.picked).size.variables));
     rows_.push_back(std::move(row));
   }
 
@@ -218,7 +215,7 @@ class stats_collector final : public model_handler {
         j["clauses"] = m.size.clauses;
         j["literals"] = m.size.literals;
         j["longest_clause"] = m.size.longest_clause;
-        j["dimacs_bytes"] = m.bytes;
+        j["dimacs_bytes"] = m.bytes ? json(*m.bytes) : json(nullptr);
         j["seconds"] = m.seconds;
         j["arc_consistent"] = info(m.id).arc_consistent;
         j["over_budget"] = m.over_budget;
@@ -255,7 +252,9 @@ class stats_collector final : public model_handler {
     out_printf("model %s: %d variables, %zu constraints", file_.c_str(), user_variables_, rows_.size());
     if (products_ != 0) out_printf(", %llu products", static_cast<unsigned long long>(products_));
     out_printf("; policy %s\n", std::string(to_string(settings_.policy)).c_str());
-    out_printf("cells: clauses/auxiliary variables of each method ('-' does not apply, 'over' passed the budget)\n\n");
+    out_printf(
+        "cells: clauses/auxiliary variables of each method ('-' does not apply, '>N' stopped after N clauses:\n"
+        "it cannot be picked, or passed the budget)\n\n");
     out_printf("%-24s %-12s %7s", "constraint", "kind", "lits");
     for (const method_id id : shown) out_printf(" %*s", column_width(id), std::string(info(id).name).c_str());
     out_printf("  picked\n");
@@ -268,13 +267,21 @@ class stats_collector final : public model_handler {
       for (const method_id id : shown) {
         std::string cell = "-";
         for (const auto& mr : row.methods)
-          if (mr.id == id)
-            cell = mr.over_budget ? "over" : std::to_string(mr.size.clauses) + "/" + std::to_string(mr.size.variables);
+          if (mr.id == id) {
+            cell = std::to_string(mr.size.clauses);
+            // Appended, not ">" + to_string(n): g++ 12 warns falsely (-Wrestrict) on that.
+            if (mr.over_budget) {
+              cell.insert(cell.begin(), '>');
+            } else {
+              cell += '/';
+              cell += std::to_string(mr.size.variables);
+            }
+          }
         out_printf(" %*s", column_width(id), cell.c_str());
       }
       out_printf("  %s\n", !row.picked   ? "(over budget)"
-                           : row.trivial ? "(any)"
-                                         : std::string(info(*row.picked).name).c_str());
+                            : row.trivial ? "(any)"
+                                          : std::string(info(*row.picked).name).c_str());
     }
     out_printf(
         "\ntotals (constraints only; products add %llu clauses and %llu variables, the objective %llu soft "
@@ -287,21 +294,32 @@ class stats_collector final : public model_handler {
   }
 
  private:
-  method_row measure(method_id id, const normalized_constraint& c, std::int64_t weight) {
+  // A measurement as the row shows it: as a soft constraint when weighted,
+  // with its DIMACS bytes from a dry run numbered at this point (for the
+  // first constraint of a shape; later ones repeat them).
+  method_row to_row(const method_measurement& m, const normalized_constraint& c, std::int64_t weight, bool cached) {
     method_row row;
-    row.id = id;
-    variable_pool scratch = pool_;
-    sizing_sink sink(settings_.clause_budget);
-    const auto start = std::chrono::steady_clock::now();
-    try {
-      encode_model_constraint(sink, scratch, c, id, weight, settings_.options);
-    } catch (const error& e) {
-      if (e.id() != error_id::over_budget) throw;
-      row.over_budget = true;
+    row.id = m.method;
+    row.size = weight > 0 ? as_soft(m.size) : m.size;
+    row.over_budget = m.over_budget;
+    row.seconds = m.seconds;
+    if (m.over_budget || m.size.clauses > stats_floor) return row;
+    const auto key = std::make_pair(m.method, weight > 0);
+    if (cached) {
+      if (const auto it = bytes_.find(key); it != bytes_.end()) row.bytes = it->second;
+      return row;
     }
-    row.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
-    row.size = sink.inner().counts().size(static_cast<std::uint64_t>(scratch.top() - pool_.top()));
-    row.bytes = sink.bytes();
+    variable_pool scratch = pool_;
+    byte_counting_sink sink;
+    try {
+      encode_model_constraint(sink, scratch, c, m.method, weight, settings_.options);
+    } catch (const error& e) {
+      if (e.id() != error_id::overflow && e.id() != error_id::over_budget) throw;
+      return row;  // no bytes for what cannot be written
+    }
+    const std::uint64_t bytes = sink.bytes();
+    bytes_[key] = bytes;
+    row.bytes = bytes;
     return row;
   }
 
@@ -314,14 +332,18 @@ class stats_collector final : public model_handler {
     j["fallbacks"] = t.fallbacks;
     const auto base_vars = static_cast<std::uint64_t>(user_variables_) + products_;
     j["cnf"] = {{"variables", base_vars + t.hard_vars}, {"clauses", product_clauses_ + t.hard_clauses}};
-    j["wcnf"] = {{"variables", base_vars + t.vars},
-                 {"clauses", product_clauses_ + t.clauses + objective_units_}};
+    j["wcnf"] = {{"variables", base_vars + t.vars}, {"clauses", product_clauses_ + t.clauses + objective_units_}};
     return j;
   }
   void print_total(const std::string& label, const total& t) const {
-    out_printf("  %-28s %14llu %14llu %16llu%s\n", label.c_str(), static_cast<unsigned long long>(t.clauses),
-               static_cast<unsigned long long>(t.vars), static_cast<unsigned long long>(t.literals),
-               t.over_budget ? "  (over budget)" : "");
+    // A total with a stopped method is only a lower bound: "more than".
+    const auto shown = [&t](std::uint64_t n) {
+      std::string text = std::to_string(n);
+      if (t.over_budget) text.insert(text.begin(), '>');
+      return text;
+    };
+    out_printf("  %-28s %14s %14s %16s%s\n", label.c_str(), shown(t.clauses).c_str(), shown(t.vars).c_str(),
+                shown(t.literals).c_str(), t.over_budget ? "  (a method was stopped: more than these)" : "");
   }
   [[nodiscard]] static int column_width(method_id id) {
     return std::max<int>(12, static_cast<int>(info(id).name.size()));
@@ -329,7 +351,8 @@ class stats_collector final : public model_handler {
 
   model_encoding_settings settings_;
   variable_pool pool_;
-  pick_cache cache_;
+  method_chooser chooser_;
+  std::map<std::pair<method_id, bool>, std::uint64_t> bytes_;  // of the last shape measured afresh
   std::int32_t user_variables_ = 0;
   std::string file_;
   std::uint64_t products_ = 0;
@@ -345,7 +368,7 @@ class stats_collector final : public model_handler {
 int run_stats(const stats_request& r) {
   model_encoding_settings settings;
   settings.policy = policy_from_name(r.pick);
-  settings.methods = methods_from_names(r.methods);
+  apply_method_options(r.methods, settings);
   settings.clause_budget = r.budget;
   settings.options.full_equivalence = r.full_equivalence;
   model_stream in(r.model);
@@ -374,11 +397,12 @@ void register_stats(CLI::App& app, command_context& context) {
   cmd->add_option("MODEL", r->model, "Model file (.opb or .json, else by content), or - for standard input")
       ->required();
   cmd->add_flag("--json", r->as_json, "Print the statistics as JSON (schema: docs/stats-format.md)");
-  cmd->add_option("--pick", r->pick, "Selection policy: smallest, smallest-arc-consistent, balanced (default)");
+  cmd->add_option("--pick", r->pick,
+                  "Selection policy: smallest, smallest-arc-consistent, balanced, propagating (default)");
   // One name per --method: a vector option would otherwise swallow MODEL too.
-  cmd->add_option("--method", r->methods, "As for encode: the methods to use where they apply (repeatable)")
-      ->allow_extra_args(false);
-  cmd->add_option("--budget", r->budget, "Clause budget of each dry run (1 to 10^15, default 50000000)")
+  cmd->add_option("--method", r->methods, "As for encode: METHOD or NAME=METHOD (repeatable)")->allow_extra_args(false);
+  cmd->add_option("--budget", r->budget,
+                  "Clauses one constraint may have (1 to 10^15, default 50000000): dry runs stop there")
       ->check(budget_check());
   cmd->add_flag("--full-equivalence", r->full_equivalence, "Measure with auxiliary variables defined both ways");
   cmd->callback([&context, r] { context.exit_code = run_stats(*r); });

@@ -61,6 +61,10 @@ void register_unavailable(CLI::App& app, command_context& context, const std::st
 // The methods of repeated --method options, each checked against the table
 // (an unknown name is an error listing the valid ones).
 [[nodiscard]] std::vector<method_id> methods_from_names(const std::vector<std::string>& names);
+// Repeated --method options into the settings: METHOD for every constraint
+// it can encode, NAME=METHOD for the constraints whose name matches NAME (a
+// name or an fnmatch pattern such as 'cap*'; "#3" is unnamed constraint 3).
+void apply_method_options(const std::vector<std::string>& options, model_encoding_settings& settings);
 // A --pick policy name (an unknown one is an error listing the valid ones).
 [[nodiscard]] selection_policy policy_from_name(const std::string& name);
 [[nodiscard]] std::string policy_names();

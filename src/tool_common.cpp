@@ -23,10 +23,28 @@ std::vector<method_id> methods_from_names(const std::vector<std::string>& names)
   return out;
 }
 
+void apply_method_options(const std::vector<std::string>& options, model_encoding_settings& settings) {
+  for (const auto& o : options) {
+    // Method names have no '=': the last one splits NAME=METHOD.
+    const std::size_t eq = o.rfind('=');
+    if (eq == std::string::npos) {
+      settings.methods.push_back(method_by_name(o));
+      continue;
+    }
+    const std::string pattern = o.substr(0, eq);
+    if (pattern.empty())
+      throw error(error_id::usage, "--method " + o + ": expected NAME=METHOD with a constraint name or pattern");
+    settings.method_rules.push_back({pattern, method_by_name(o.substr(eq + 1))});
+  }
+}
+
 std::string policy_names() {
-  return std::string(to_string(selection_policy::smallest)) + ", " +
-         std::string(to_string(selection_policy::smallest_arc_consistent)) + ", " +
-         std::string(to_string(selection_policy::balanced));
+  std::string names;
+  for (const selection_policy p : all_policies) {
+    if (!names.empty()) names += ", ";
+    names += to_string(p);
+  }
+  return names;
 }
 
 selection_policy policy_from_name(const std::string& name) {

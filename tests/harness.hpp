@@ -61,8 +61,7 @@ struct raw_constraint {
 
 inline raw_constraint cardinality(std::int32_t n, cw::relation rel, std::int64_t k, bool negate_some = false) {
   raw_constraint c;
-  for (std::int32_t v = 1; v <= n; ++v)
-    c.terms.push_back({1, cw::lit(negate_some && v % 2 == 0 ? -v : v)});
+  for (std::int32_t v = 1; v <= n; ++v) c.terms.push_back({1, cw::lit(negate_some && v % 2 == 0 ? -v : v)});
   c.rel = rel;
   c.bound = k;
   return c;
@@ -90,7 +89,11 @@ inline void add_to_solver(CaDiCaL::Solver& solver, const cw::cnf_buffer& cnf) {
   }
 }
 
-// Exhaustive equivalence against CaDiCaL.
+// Exhaustive equivalence against CaDiCaL. With full_equivalence also that
+// the auxiliary variables are defined in both directions: for every input
+// assignment that satisfies the constraint, exactly one model of the clauses
+// extends it (the first model found is blocked, and CaDiCaL must find no
+// other).
 inline ::testing::AssertionResult equivalent(const raw_constraint& c, cw::method_id method,
                                              const cw::encode_options& options = {}, const std::string& context = {}) {
   const auto inputs = c.inputs();
@@ -104,6 +107,9 @@ inline ::testing::AssertionResult equivalent(const raw_constraint& c, cw::method
   CaDiCaL::Solver solver;
   add_to_solver(solver, e.cnf);
   const std::uint64_t assignments = std::uint64_t{1} << inputs.size();
+  // Selectors of the blocking clauses of the full-equivalence check come
+  // after every variable of the encoding.
+  std::int32_t next_selector = e.pool.top();
   for (std::uint64_t bits = 0; bits < assignments; ++bits) {
     auto value = [&](std::int32_t var) {
       for (std::size_t i = 0; i < inputs.size(); ++i)
@@ -114,16 +120,42 @@ inline ::testing::AssertionResult equivalent(const raw_constraint& c, cw::method
     const int status = solver.solve();
     const bool sat = status == 10;
     const bool expected = cw::holds(c.terms, c.rel, c.bound, value);
-    if (status != 10 && status != 20)
-      return ::testing::AssertionFailure() << "CaDiCaL returned " << status;
+    if (status != 10 && status != 20) return ::testing::AssertionFailure() << "CaDiCaL returned " << status;
     if (sat != expected) {
       std::ostringstream os;
       for (std::size_t i = 0; i < inputs.size(); ++i) os << (((bits >> i) & 1U) ? "" : "~") << "x" << inputs[i] << " ";
       return ::testing::AssertionFailure()
-             << context << " method " << cw::info(method).name << (options.full_equivalence ? " (full)" : "")
-             << " on " << c.describe() << ": under " << os.str() << "the clauses are "
-             << (sat ? "satisfiable" : "unsatisfiable") << " but the constraint "
-             << (expected ? "holds" : "is violated");
+             << context << " method " << cw::info(method).name << (options.full_equivalence ? " (full)" : "") << " on "
+             << c.describe() << ": under " << os.str() << "the clauses are " << (sat ? "satisfiable" : "unsatisfiable")
+             << " but the constraint " << (expected ? "holds" : "is violated");
+    }
+    if (sat && options.full_equivalence && e.pool.top() > e.pool.user_variables()) {
+      // With full equivalence every auxiliary variable is a function of the
+      // inputs: no second model differs from the first on them. The first
+      // model is blocked under a fresh selector, so the clause stays inactive
+      // for the other assignments.
+      const std::int32_t selector = ++next_selector;
+      std::ostringstream first;
+      std::vector<int> blocking;  // read every value before adding (adding leaves the satisfied state)
+      for (std::int32_t v = e.pool.user_variables() + 1; v <= e.pool.top(); ++v) {
+        const int value = solver.val(v);
+        blocking.push_back(value > 0 ? -v : v);
+        first << (value > 0 ? "" : "~") << "a" << v << " ";
+      }
+      for (const int l : blocking) solver.add(l);
+      solver.add(-selector);
+      solver.add(0);
+      for (std::size_t i = 0; i < inputs.size(); ++i) solver.assume(((bits >> i) & 1U) ? inputs[i] : -inputs[i]);
+      solver.assume(selector);
+      const int again = solver.solve();
+      if (again != 20) {
+        std::ostringstream os;
+        for (std::size_t i = 0; i < inputs.size(); ++i)
+          os << (((bits >> i) & 1U) ? "" : "~") << "x" << inputs[i] << " ";
+        return ::testing::AssertionFailure()
+               << context << " method " << cw::info(method).name << " (full) on " << c.describe() << ": under "
+               << os.str() << "the auxiliary variables are not determined: a second model differs from " << first.str();
+      }
     }
   }
   return ::testing::AssertionSuccess();
@@ -255,7 +287,8 @@ inline propagation_report measure_propagation(const raw_constraint& c, cw::metho
     if (!satisfiable) {
       if (no_conflict && report.arc_consistent) {
         report.arc_consistent = false;
-        report.counterexample = "under " + describe_partial() + "the constraint is violated but propagation finds no conflict";
+        report.counterexample =
+            "under " + describe_partial() + "the constraint is violated but propagation finds no conflict";
       }
       continue;
     }

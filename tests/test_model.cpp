@@ -12,6 +12,7 @@
 #include <cadical.hpp>
 #include <clausewright/model.hpp>
 #include <cstdint>
+#include <optional>
 #include <random>
 #include <sstream>
 #include <string>
@@ -365,6 +366,75 @@ TEST(ModelEncoding, PickCacheAgreesWithSelection) {
       ASSERT_EQ(cache.pick(pool, c, s), cw::select_method(pool, c, policy)) << "case " << i;
     }
   }
+}
+
+TEST(ModelEncoding, StoppedDryRunsPickAsFullMeasurement) {
+  // The cheap choice measures in order of expected size and stops each dry
+  // run where its method can no longer win; its pick must be the one made on
+  // every method measured in full (seeded random constraints, every policy,
+  // generous and tight budgets).
+  std::mt19937_64 rng(91);
+  std::uint64_t compared = 0;
+  for (int i = 0; i < 250; ++i) {
+    std::vector<cw::term> terms;
+    const int n = 2 + static_cast<int>(rng() % 11);
+    const bool unit = i % 3 == 0;
+    for (int j = 0; j < n; ++j)
+      terms.push_back({unit ? 1 : 1 + static_cast<std::int64_t>(rng() % 40), lit(j + 1)});
+    const auto rel = static_cast<cw::relation>(rng() % 3);
+    std::int64_t total = 0;
+    for (const auto& t : terms) total += t.coefficient;
+    const auto c = cw::normalize(terms, rel, static_cast<std::int64_t>(rng() % static_cast<std::uint64_t>(total + 1)));
+    if (c.is_constant() || c.kind == cw::constraint_kind::clause) continue;
+    const cw::variable_pool pool(16);
+    for (const std::uint64_t budget : {cw::default_clause_budget, std::uint64_t{60}})
+      for (const auto policy : cw::all_policies) {
+        const auto full = cw::measure_all(pool, c, {}, budget);
+        const auto cut = cw::measure_for_policy(pool, c, policy, {}, budget);
+        ASSERT_EQ(full.size(), cut.size());
+        std::optional<cw::method_id> expected;
+        std::optional<cw::method_id> got;
+        try {
+          expected = cw::pick(full, policy, c);
+        } catch (const cw::error&) {
+        }
+        try {
+          got = cw::pick(cut, policy, c);
+        } catch (const cw::error&) {
+        }
+        ASSERT_EQ(expected, got) << "seed 91 case " << i << " policy " << cw::to_string(policy) << " budget "
+                                 << budget;
+        // What was measured in full is exact; what was stopped is below the truth.
+        for (std::size_t m = 0; m < full.size(); ++m) {
+          if (!cut[m].over_budget) {
+            EXPECT_EQ(cut[m].size, full[m].size) << cw::info(cut[m].method).name;
+          } else if (!full[m].over_budget) {
+            EXPECT_LE(cut[m].size.clauses, full[m].size.clauses) << cw::info(cut[m].method).name;
+          }
+        }
+        ++compared;
+      }
+  }
+  EXPECT_GT(compared, 1000U);
+}
+
+TEST(ModelEncoding, PickCacheKeysOnTheCoefficientMultiset) {
+  // The same coefficients in another order, over other literals, are one
+  // shape: measured once. The pick is then the one select_method makes.
+  cw::pick_cache cache;
+  cw::model_encoding_settings s;
+  const cw::variable_pool pool(8);
+  const auto a = cw::normalize(std::vector<cw::term>{{3, lit(1)}, {5, lit(2)}, {4, lit(3)}, {2, lit(4)}},
+                               cw::relation::le, 9);
+  const auto b = cw::normalize(std::vector<cw::term>{{2, lit(8)}, {4, lit(-6)}, {3, lit(5)}, {5, lit(7)}},
+                               cw::relation::le, 9);
+  EXPECT_EQ(cw::shape_of(a, s), cw::shape_of(b, s));
+  EXPECT_NE(cw::shape_of(a, s, true), cw::shape_of(b, s, true));  // the order is part of the exact shape
+  const auto c = cw::normalize(std::vector<cw::term>{{3, lit(1)}, {5, lit(2)}, {4, lit(3)}, {2, lit(4)}},
+                               cw::relation::le, 10);
+  EXPECT_NE(cw::shape_of(a, s), cw::shape_of(c, s));
+  EXPECT_EQ(cache.pick(pool, a, s), cw::select_method(pool, a, s.policy));
+  EXPECT_EQ(cache.pick(pool, b, s), cw::select_method(pool, b, s.policy));
 }
 
 TEST(ModelEncoding, MeasurementEqualsWhatIsWritten) {

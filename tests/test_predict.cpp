@@ -5,9 +5,11 @@
 // Batcher's (t^2 - t + 4) 2^(t-2) - 1 comparators; tests/test_encodings_core.cpp
 // and tests/test_cardinality.cpp check those against the papers, this test
 // that the predictor and the encoder agree on every field.
+#include <gtest/gtest.h>
 #include <clausewright/clausewright.hpp>
 #include <clausewright/predict.hpp>
-#include <gtest/gtest.h>
+
+#include <random>
 
 #include "harness.hpp"
 
@@ -26,12 +28,11 @@ TEST(Predict, EqualsTheDryRunWheneverItPredicts) {
             const auto p = cw::predict_size(m.id, c, options);
             if (!p) continue;
             ++predicted;
-            const auto dry = cw::measure(m.id, cw::variable_pool(n), c, options);
+            const auto dry = cw::dry_run(m.id, cw::variable_pool(n), c, options);
             ASSERT_EQ(*p, dry.size) << m.name << " n=" << n << " k=" << k << " rel " << cw::to_string(rel)
                                     << (full ? " full" : "") << ": predicted " << p->clauses << " clauses "
                                     << p->variables << " vars " << p->literals << " literals, dry run "
-                                    << dry.size.clauses << " / " << dry.size.variables << " / "
-                                    << dry.size.literals;
+                                    << dry.size.clauses << " / " << dry.size.variables << " / " << dry.size.literals;
           }
   EXPECT_GT(predicted, 500U);
 }
@@ -52,15 +53,73 @@ TEST(Predict, NetworksEqualTheDryRunAtLargerSizes) {
             const auto p = cw::predict_size(id, c, options);
             if (!p) continue;
             ++predicted;
-            const auto dry = cw::measure(id, cw::variable_pool(n), c, options);
-            ASSERT_EQ(*p, dry.size) << cw::info(id).name << " n=" << n << " k=" << k << " rel "
-                                    << cw::to_string(rel) << (full ? " full" : "");
+            const auto dry = cw::dry_run(id, cw::variable_pool(n), c, options);
+            ASSERT_EQ(*p, dry.size) << cw::info(id).name << " n=" << n << " k=" << k << " rel " << cw::to_string(rel)
+                                    << (full ? " full" : "");
           }
   EXPECT_GT(predicted, 100U);
 }
 
 // Batcher 1968: (t^2 - t + 4) 2^(t-2) - 1 comparators sort 2^t inputs; the
 // predictor's count (clauses / 6 with both sides, every comparator full).
+// The weighted closed forms (the adder network's buckets and comparator,
+// the one-directional sequential weight counter) against the dry run, on
+// seeded random constraints of every relation, with and without full
+// equivalence.
+TEST(Predict, WeightedClosedFormsEqualTheDryRun) {
+  std::mt19937_64 rng(41);
+  std::uint64_t predicted = 0;
+  for (int i = 0; i < 400; ++i) {
+    const auto n = static_cast<std::int32_t>(2 + rng() % 14);
+    const std::int64_t most = i % 3 == 0 ? 9 : 200;
+    const auto raw = cw_test::random_linear(rng, n, most, true, false);
+    const auto c = raw.normalized();
+    for (const auto id : {cw::method_id::adder, cw::method_id::sequential_weight_counter})
+      for (const bool full : {false, true}) {
+        if (!cw::can_encode(id, c)) continue;
+        const cw::encode_options options{full};
+        const auto p = cw::predict_size(id, c, options);
+        if (!p) continue;
+        ++predicted;
+        const auto dry = cw::dry_run(id, cw::variable_pool(n), c, options);
+        ASSERT_EQ(*p, dry.size) << "seed 41 case " << i << " " << cw::info(id).name << (full ? " full" : "") << " on "
+                                << raw.describe() << ": predicted " << p->clauses << "/" << p->variables << "/"
+                                << p->literals << ", dry run " << dry.size.clauses << "/" << dry.size.variables << "/"
+                                << dry.size.literals;
+      }
+  }
+  EXPECT_GT(predicted, 300U);
+}
+
+// The cheap lower bounds (the totalizer's and the generalized totalizer's
+// root, the BDD's sampled levels) never pass the dry run; and on a weighted
+// capacity row they are far above the smallest method, which is what makes
+// the choice cheap.
+TEST(Predict, LowerBoundsNeverPassTheDryRun) {
+  std::mt19937_64 rng(43);
+  std::uint64_t positive = 0;
+  for (int i = 0; i < 300; ++i) {
+    const auto n = static_cast<std::int32_t>(2 + rng() % 14);
+    const auto raw = i % 2 == 0
+                         ? cw_test::random_linear(rng, n, 1 + static_cast<std::int64_t>(rng() % 60), true, false)
+                         : cw_test::cardinality(n, static_cast<cw::relation>(i % 3),
+                                                static_cast<std::int64_t>(rng() % static_cast<std::uint64_t>(n + 1)));
+    const auto c = raw.normalized();
+    for (const auto& m : cw::method_table)
+      for (const bool full : {false, true}) {
+        if (!cw::can_encode(m.id, c)) continue;
+        const cw::encode_options options{full};
+        const std::uint64_t least = cw::clause_lower_bound(m.id, c, options);
+        const auto dry = cw::dry_run(m.id, cw::variable_pool(n), c, options);
+        ASSERT_FALSE(dry.over_budget);
+        ASSERT_LE(least, dry.size.clauses)
+            << "seed 43 case " << i << " " << m.name << (full ? " full" : "") << " on " << raw.describe();
+        positive += least > 0 ? 1 : 0;
+      }
+  }
+  EXPECT_GT(positive, 1000U);
+}
+
 TEST(Predict, SortingNetworkCountIsBatchers) {
   // From t = 2: two inputs with k = 1 normalise to a clause.
   for (std::int32_t t = 2; t <= 12; ++t) {

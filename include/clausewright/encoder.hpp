@@ -1,9 +1,11 @@
 // clausewright: the front end that takes constraints and streams their clauses.
 //
-// An encoder normalises each constraint as it is added, picks a method (the
-// one asked for, or by the selection policy), and writes the clauses straight
-// into the sink. It keeps nothing per constraint, so memory stays bounded by
-// the largest single constraint however many are added.
+// An encoder normalises each constraint as it is added and hands it to the
+// constraint pipeline (pipeline.hpp): the method asked for, or the selection
+// policy's pick (cached by the shape of the constraint), written straight
+// into the sink within the clause budget. It keeps nothing per constraint
+// but the cache of picks, so memory stays bounded by the largest single
+// constraint however many are added.
 #pragma once
 
 #include <cstdint>
@@ -15,6 +17,7 @@
 
 #include "constraint.hpp"
 #include "methods.hpp"
+#include "pipeline.hpp"
 #include "pool.hpp"
 #include "select.hpp"
 #include "sink.hpp"
@@ -29,25 +32,7 @@ struct encoded_constraint {
   encoding_size size;               // clauses and auxiliary variables it added
 };
 
-struct encoder_settings {
-  selection_policy policy = selection_policy::balanced;
-  encode_options options;
-  std::uint64_t clause_budget = default_clause_budget;
-};
-
-// The method that encodes `c`: `chosen` when given (it must apply), else the
-// pick of the settings' policy; empty for constraints that need no method
-// (constants and single clauses).
-[[nodiscard]] inline std::optional<method_id> method_for(const variable_pool& pool, const normalized_constraint& c,
-                                                         std::optional<method_id> chosen,
-                                                         const encoder_settings& settings) {
-  if (c.is_constant() || c.kind == constraint_kind::clause) return std::nullopt;
-  if (chosen) {
-    require_applicable(*chosen, c);
-    return chosen;
-  }
-  return select_method(pool, c, settings.policy, settings.options, settings.clause_budget);
-}
+struct encoder_settings : choice_settings {};
 
 template <class Sink>
 class encoder {
@@ -102,17 +87,19 @@ class encoder {
     encoded_constraint result;
     result.index = c.index;
     result.kind = c.kind;
-    result.method = method_for(pool_, c, m, settings_);
-    counting_sink counts;
-    tee_sink<Sink, counting_sink> both(sink_, counts);
-    const std::int32_t top_before = pool_.top();
-    encode_with(result.method.value_or(method_id::pairwise), both, pool_, c, settings_.options);
-    result.size = counts.size(static_cast<std::uint64_t>(pool_.top() - top_before));
+    try {
+      result.method = chooser_.choose(pool_, c, m, settings_);
+    } catch (const error& e) {
+      detail::rethrow_at(e, c.where());
+    }
+    result.size = encode_constraint(sink_, pool_, c, result.method, settings_, c.where());
     return result;
   }
 
   [[nodiscard]] std::size_t constraints() const noexcept { return next_; }
   [[nodiscard]] variable_pool& pool() noexcept { return pool_; }
+  [[nodiscard]] const encoder_settings& settings() const noexcept { return settings_; }
+  [[nodiscard]] method_chooser& chooser() noexcept { return chooser_; }
 
  private:
   void require_literals(std::span<const literal> lits, const char* what) const {
@@ -129,6 +116,7 @@ class encoder {
   Sink& sink_;
   variable_pool& pool_;
   encoder_settings settings_;
+  method_chooser chooser_;
   std::size_t next_ = 0;
 };
 

@@ -24,6 +24,7 @@ enum class error_id : std::uint8_t {
   io,                    // reading or writing a file failed
   solver,                // the embedded solver failed or was misused
   usage,                 // an API call made in the wrong state
+  time_limit,            // the deadline passed while encoding
 };
 
 // Where an error is: a constraint index (0-based, in the order added), and/or a

@@ -1,13 +1,15 @@
 // clausewright: the method table and dispatch by method.
 //
-// One registry of every encoding: its name (the command-line tool lists and
-// selects methods by these names), the constraint kinds it applies to, and
-// whether it is arc-consistent. The arc-consistency column is what the test
+// One registry of every encoding, built from the descriptors the encoding
+// files declare (encodings/descriptor.hpp, listed in encodings/all.hpp): its
+// name (the command-line tool lists and selects methods by these names), the
+// constraint kinds it applies to, and whether it is arc-consistent. The arc-consistency column is what the test
 // harness measures (tests/test_method_table.cpp fails when a claim here and
 // the measurement disagree). Size formulas are given where one is published.
 #pragma once
 
 #include <array>
+#include <concepts>
 #include <cstdint>
 #include <optional>
 #include <span>
@@ -15,53 +17,18 @@
 #include <string_view>
 
 #include "constraint.hpp"
-#include "encodings/adder.hpp"
-#include "encodings/bdd.hpp"
-#include "encodings/bimander.hpp"
-#include "encodings/binomial.hpp"
-#include "encodings/bitwise.hpp"
-#include "encodings/cardinality_network.hpp"
-#include "encodings/commander.hpp"
+#include "encodings/all.hpp"
 #include "encodings/common.hpp"
-#include "encodings/generalized_totalizer.hpp"
-#include "encodings/ladder.hpp"
-#include "encodings/modulo_totalizer.hpp"
-#include "encodings/pairwise.hpp"
-#include "encodings/product.hpp"
-#include "encodings/sequential_counter.hpp"
-#include "encodings/sequential_weight_counter.hpp"
-#include "encodings/totalizer.hpp"
+#include "encodings/descriptor.hpp"
 #include "error.hpp"
 
 namespace clausewright {
 
 enum class method_id : std::uint8_t {
-  pairwise,
-  ladder,
-  bitwise,
-  commander,
-  product,
-  bimander,
-  sequential_counter,
-  totalizer,
-  modulo_totalizer,
-  cardinality_network,
-  sorting_network,
-  binomial,
-  bdd,
-  adder,
-  generalized_totalizer,
-  sequential_weight_counter,
+#define CLAUSEWRIGHT_METHOD_ID(name) name,
+  CLAUSEWRIGHT_ENCODINGS(CLAUSEWRIGHT_METHOD_ID)
+#undef CLAUSEWRIGHT_METHOD_ID
 };
-
-// Kinds a method applies to, as a bit set.
-enum class applies : std::uint8_t { at_most_one = 1, cardinality = 2, linear = 4 };
-[[nodiscard]] constexpr std::uint8_t operator|(applies a, applies b) noexcept {
-  return static_cast<std::uint8_t>(static_cast<std::uint8_t>(a) | static_cast<std::uint8_t>(b));
-}
-[[nodiscard]] constexpr std::uint8_t operator|(std::uint8_t a, applies b) noexcept {
-  return static_cast<std::uint8_t>(a | static_cast<std::uint8_t>(b));
-}
 
 struct method_info {
   method_id id;
@@ -70,59 +37,48 @@ struct method_info {
   bool arc_consistent;         // as measured by the harness
   std::string_view source;     // the publication it follows
   std::string_view size_note;  // closed-form size where published, else empty
+  std::string_view limits;     // what stops it before the clause budget does
+  bool objective_bound;        // an incremental objective bound sits on it
 
   [[nodiscard]] constexpr bool applies_to_kind(applies a) const noexcept {
     return (applies_to & static_cast<std::uint8_t>(a)) != 0;
   }
 };
 
+namespace detail {
+[[nodiscard]] constexpr method_info row(method_id id, const encoding_descriptor& d) noexcept {
+  return {id, d.name, d.applies_to, d.arc_consistent, d.source, d.size_note, d.limits, d.objective_bound};
+}
+template <class E>
+concept predicts = requires(const normalized_constraint& c, const encode_options& o) {
+  { E::predict(c, o) } -> std::same_as<std::optional<encoding_size>>;
+};
+template <class E>
+concept bounds_below = requires(const normalized_constraint& c, const encode_options& o, std::uint64_t enough) {
+  { E::lower_bound(c, o, enough) } -> std::same_as<std::uint64_t>;
+};
+template <class E>
+[[nodiscard]] std::optional<encoding_size> predict_by(const normalized_constraint& c, const encode_options& o) {
+  if constexpr (predicts<E>)
+    return E::predict(c, o);
+  else
+    return std::nullopt;
+}
+template <class E>
+[[nodiscard]] std::uint64_t lower_bound_by(const normalized_constraint& c, const encode_options& o,
+                                           std::uint64_t enough) {
+  if constexpr (bounds_below<E>)
+    return E::lower_bound(c, o, enough);
+  else
+    return 0;
+}
+}  // namespace detail
+
+// Built from the encodings' descriptors, in the order of the list.
 inline constexpr std::array method_table{
-    method_info{method_id::pairwise, "pairwise", static_cast<std::uint8_t>(applies::at_most_one), true,
-                "folklore (binomial encoding)", "0 auxiliary variables, n(n-1)/2 clauses"},
-    method_info{method_id::ladder, "ladder", static_cast<std::uint8_t>(applies::at_most_one), true,
-                "Sinz 2005 (CP), k = 1; Gent & Nightingale 2004", "n-1 auxiliary variables, 3n-4 clauses"},
-    method_info{method_id::bitwise, "bitwise", static_cast<std::uint8_t>(applies::at_most_one), true,
-                "Frisch et al. 2005; Prestwich 2007", "ceil(log2 n) auxiliary variables, n*ceil(log2 n) clauses"},
-    method_info{method_id::commander, "commander", static_cast<std::uint8_t>(applies::at_most_one), true,
-                "Klieber & Kwon 2007", "groups of 3, n = 3^t: (n-3)/2 auxiliary variables, 3n-6 clauses (3.5n-6.5 "
-                "for exactly-one)"},
-    method_info{method_id::product, "product", static_cast<std::uint8_t>(applies::at_most_one), true,
-                "Chen 2010", "2*sqrt(n) + O(n^(1/4)) auxiliary variables, 2n + 4*sqrt(n) + O(n^(1/4)) clauses"},
-    method_info{method_id::bimander, "bimander", static_cast<std::uint8_t>(applies::at_most_one), true,
-                "Nguyen & Mai 2015", "groups of 4, b = ceil(log2 ceil(n/4)): b auxiliary variables, n*b + 6 "
-                "clauses per group of 4"},
-    method_info{method_id::sequential_counter, "sequential-counter", applies::at_most_one | applies::cardinality, true,
-                "Sinz 2005 (CP)", "at most k, 1 <= k < n: k(n-1) auxiliary variables, 2nk + n - 3k - 1 clauses"},
-    method_info{method_id::totalizer, "totalizer", applies::at_most_one | applies::cardinality, true,
-                "Bailleux & Boufkhad 2003 (CP); outputs cut at k+1, Büttner & Rintanen 2005",
-                "a node joining counts of sizes a and b: (a+1)(b+1)-1 clauses per direction before cutting; "
-                "O(n log k) auxiliary variables, O(nk) clauses"},
-    method_info{method_id::modulo_totalizer, "modulo-totalizer", applies::at_most_one | applies::cardinality,
-                false, "Ogawa, Liu, Hasegawa, Koshimura, Fujita 2013 (ICTAI)",
-                "divisor p = ceil(sqrt k): O(n sqrt k) auxiliary variables and clauses"},
-    method_info{method_id::cardinality_network, "cardinality-network", applies::at_most_one | applies::cardinality,
-                true, "Asín, Nieuwenhuis, Oliveras, Rodríguez-Carbonell 2011 (Constraints); Batcher 1968",
-                "O(n log^2 k) comparators, 3 clauses and 2 auxiliary variables each per direction"},
-    method_info{method_id::sorting_network, "sorting-network", applies::at_most_one | applies::cardinality,
-                true, "Batcher 1968 (odd-even merge sort); Eén & Sörensson 2006 (JSAT)",
-                "n = 2^m: (m^2 - m + 4) * 2^(m-2) - 1 comparators, 3 clauses and 2 auxiliary variables each per "
-                "direction (inputs padded with false to a power of two)"},
-    method_info{method_id::binomial, "binomial", applies::at_most_one | applies::cardinality, true,
-                "folklore (direct encoding)", "0 auxiliary variables; C(n, k+1) clauses for <=, C(n, n-k+1) for >="},
-    method_info{method_id::bdd, "bdd", applies::at_most_one | applies::cardinality | applies::linear, true,
-                "Abío, Nieuwenhuis, Oliveras, Rodríguez-Carbonell, Mayer-Eichberger 2012 (JAIR); "
-                "Eén & Sörensson 2006 (JSAT)",
-                "one node per distinct interval of bounds, O(nK); per node 2 clauses (<=, >=), 3 (=), 6 (full)"},
-    method_info{method_id::adder, "adder", applies::at_most_one | applies::cardinality | applies::linear, false,
-                "Warners 1998 (IPL); Eén & Sörensson 2006 (JSAT)",
-                "O(n log a_max): full adder 8 + 6 clauses, half adder 4 + 3 (one direction: 4 + 3, 2 + 1 or 2 + 2)"},
-    method_info{method_id::generalized_totalizer, "generalized-totalizer",
-                applies::at_most_one | applies::cardinality | applies::linear, true,
-                "Joshi, Martins, Manquinho 2015 (CP)",
-                "a node of children with p and q distinct sums (cut at K+1): (p+1)(q+1)-1 clauses per direction"},
-    method_info{method_id::sequential_weight_counter, "sequential-weight-counter",
-                applies::at_most_one | applies::cardinality | applies::linear, true,
-                "Hölldobler, Manthey, Steinke 2012 (KI)", "<= K: K(n-1) registers, O(nK) clauses"},
+#define CLAUSEWRIGHT_METHOD_ROW(name) detail::row(method_id::name, name##_encoding::descriptor),
+    CLAUSEWRIGHT_ENCODINGS(CLAUSEWRIGHT_METHOD_ROW)
+#undef CLAUSEWRIGHT_METHOD_ROW
 };
 
 [[nodiscard]] constexpr const method_info& info(method_id id) noexcept {
@@ -154,14 +110,16 @@ inline constexpr std::array method_table{
   switch (c.kind) {
     case constraint_kind::constant_true:
     case constraint_kind::constant_false:
-    case constraint_kind::clause: return true;
+    case constraint_kind::clause:
+      return true;
     case constraint_kind::at_most_one:
     case constraint_kind::exactly_one:
       return m.applies_to_kind(applies::at_most_one) || m.applies_to_kind(applies::cardinality) ||
              m.applies_to_kind(applies::linear);
     case constraint_kind::cardinality:
       return m.applies_to_kind(applies::cardinality) || m.applies_to_kind(applies::linear);
-    case constraint_kind::linear: return m.applies_to_kind(applies::linear);
+    case constraint_kind::linear:
+      return m.applies_to_kind(applies::linear);
   }
   return false;
 }
@@ -170,48 +128,66 @@ inline constexpr std::array method_table{
 // encode `c`.
 inline void require_applicable(method_id id, const normalized_constraint& c) {
   if (!can_encode(id, c))
-    throw error(error_id::method_not_applicable,
-                "method " + std::string(info(id).name) + " cannot encode a " + std::string(to_string(c.kind)) +
-                    " constraint",
-                c.where());
+    throw error(
+        error_id::method_not_applicable,
+        "method " + std::string(info(id).name) + " cannot encode a " + std::string(to_string(c.kind)) + " constraint",
+        c.where());
 }
 
 // Encodes a normalised constraint with the given method: its units as unit
 // clauses, the empty clause when it is impossible, nothing when it is
 // trivially true, and otherwise the method's clauses.
+// What every method writes alike: the empty clause of an impossible
+// constraint, the units, a single clause. Returns whether that was all.
+template <class Sink>
+bool encode_common_part(Sink& out, const normalized_constraint& c) {
+  if (c.kind == constraint_kind::constant_false) {
+    out.add_clause(std::span<const literal>());
+    return true;
+  }
+  for (const literal u : c.units) emit(out, u);
+  switch (c.kind) {
+    case constraint_kind::constant_true:
+      return true;
+    case constraint_kind::clause:
+      out.add_clause(std::span<const literal>(c.literals));
+      return true;
+    default:
+      return false;
+  }
+}
+
 template <class Sink>
 void encode_with(method_id id, Sink& out, variable_pool& pool, const normalized_constraint& c,
                  const encode_options& options = {}) {
   static_assert(check_clause_sink<Sink>());
-  if (c.kind == constraint_kind::constant_false) {
-    out.add_clause(std::span<const literal>());
-    return;
-  }
-  for (const literal u : c.units) emit(out, u);
-  switch (c.kind) {
-    case constraint_kind::constant_true: return;
-    case constraint_kind::clause: out.add_clause(std::span<const literal>(c.literals)); return;
-    default: break;
-  }
+  if (encode_common_part(out, c)) return;
   require_applicable(id, c);
   switch (id) {
-    case method_id::pairwise: encode_pairwise(out, pool, c, options); return;
-    case method_id::ladder: encode_ladder(out, pool, c, options); return;
-    case method_id::bitwise: encode_bitwise(out, pool, c, options); return;
-    case method_id::commander: encode_commander(out, pool, c, options); return;
-    case method_id::product: encode_product(out, pool, c, options); return;
-    case method_id::bimander: encode_bimander(out, pool, c, options); return;
-    case method_id::sequential_counter: encode_sequential_counter(out, pool, c, options); return;
-    case method_id::totalizer: encode_totalizer(out, pool, c, options); return;
-    case method_id::modulo_totalizer: encode_modulo_totalizer(out, pool, c, options); return;
-    case method_id::cardinality_network: encode_cardinality_network(out, pool, c, options); return;
-    case method_id::sorting_network: encode_sorting_network(out, pool, c, options); return;
-    case method_id::binomial: encode_binomial(out, pool, c, options); return;
-    case method_id::bdd: encode_bdd(out, pool, c, options); return;
-    case method_id::adder: encode_adder(out, pool, c, options); return;
-    case method_id::generalized_totalizer: encode_generalized_totalizer(out, pool, c, options); return;
-    case method_id::sequential_weight_counter: encode_sequential_weight_counter(out, pool, c, options); return;
+#define CLAUSEWRIGHT_DISPATCH(name)                 \
+  case method_id::name:                             \
+    name##_encoding::encode(out, pool, c, options); \
+    return;
+    CLAUSEWRIGHT_ENCODINGS(CLAUSEWRIGHT_DISPATCH)
+#undef CLAUSEWRIGHT_DISPATCH
   }
+}
+
+// The same for a constraint that may need no method: constants and single
+// clauses are written without one; any other kind needs `id`.
+template <class Sink>
+void encode_with(std::optional<method_id> id, Sink& out, variable_pool& pool, const normalized_constraint& c,
+                 const encode_options& options = {}) {
+  if (id) {
+    encode_with(*id, out, pool, c, options);
+    return;
+  }
+  if (c.is_constant() || c.kind == constraint_kind::clause) {
+    encode_common_part(out, c);
+    return;
+  }
+  throw error(error_id::method_not_applicable, "a " + std::string(to_string(c.kind)) + " constraint needs a method",
+              c.where());
 }
 
 }  // namespace clausewright

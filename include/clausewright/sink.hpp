@@ -25,7 +25,24 @@ namespace clausewright {
 
 template <class S>
 concept clause_sink = requires(S& sink, std::span<const literal> clause) {
-  { sink.add_clause(clause) };
+  {sink.add_clause(clause)};
+};
+
+// A sink that also takes weighted soft clauses (a WCNF writer, a MaxSAT
+// solver): violating a soft clause of weight w costs w.
+template <class S>
+concept weighted_clause_sink = clause_sink<S> && requires(S& sink, std::int64_t w, std::span<const literal> c) {
+  {sink.add_soft_clause(w, c)};
+};
+
+// A sink that takes the objective itself, term by term: minimise the sum of
+// coefficient * [l] over the terms added (a solver with an optimiser). The
+// model encoder hands such a sink the objective and the cost of each soft
+// constraint (its weight on the negated relaxation literal); a weighted
+// sink without this hook gets them as soft unit clauses, as WCNF writes them.
+template <class S>
+concept objective_sink = requires(S& sink, std::int64_t coefficient, literal l) {
+  {sink.add_objective_term(coefficient, l)};
 };
 
 // Gives a readable message where a type is used as a sink but is not one.

@@ -23,12 +23,15 @@
 // bit of each coefficient. Not arc-consistent (measured).
 #pragma once
 
+#include <algorithm>
 #include <cstdint>
 #include <deque>
+#include <optional>
 #include <span>
 #include <vector>
 
 #include "common.hpp"
+#include "descriptor.hpp"
 
 namespace clausewright {
 
@@ -189,6 +192,65 @@ void compare_binary_sum(Sink& out, const binary_sum& sum, relation rel, std::int
   }
 }
 
+// The exact size of encode_adder on `c` (a counting, cardinality or linear
+// kind), without building it: the buckets are reduced as counts (a bucket of
+// m literals takes floor((m-1)/2) full adders for m >= 3, then a half adder
+// when two are left, each passing one carry up), and the comparator is run
+// on placeholder bits into a counting sink. O(bits^2).
+[[nodiscard]] inline encoding_size adder_size(const normalized_constraint& c, const encode_options& options) {
+  const sides which = sides_for(c.rel, options);
+  std::vector<std::uint64_t> buckets;
+  for (const std::int64_t a : c.coefficients) {
+    auto bits = static_cast<std::uint64_t>(a);
+    for (std::size_t bit = 0; bits != 0; ++bit, bits >>= 1U) {
+      if ((bits & 1U) == 0) continue;
+      if (buckets.size() <= bit) buckets.resize(bit + 1, 0);
+      ++buckets[bit];
+    }
+  }
+  std::uint64_t full = 0;
+  std::uint64_t half = 0;
+  binary_sum placeholder;
+  for (std::size_t bit = 0; bit < buckets.size(); ++bit) {
+    std::uint64_t m = buckets[bit];
+    const std::uint64_t f = m >= 3 ? (m - 1) / 2 : 0;
+    m -= 2 * f;
+    const std::uint64_t h = m == 2 ? 1 : 0;
+    m -= h;
+    full += f;
+    half += h;
+    if (f + h != 0) {
+      if (buckets.size() <= bit + 1) buckets.resize(bit + 2, 0);
+      buckets[bit + 1] += f + h;
+    }
+    placeholder.bits.push_back(m != 0 ? literal(1) : literal());
+  }
+  encoding_size s;
+  s.variables = 2 * (full + half);
+  counting_sink counts;
+  compare_binary_sum(counts, placeholder, c.rel, c.bound);
+  s.clauses = counts.clauses();
+  s.literals = counts.literals();
+  s.longest_clause = counts.longest_clause();
+  auto add = [&s](std::uint64_t count, std::uint64_t length) {
+    if (count == 0) return;
+    s.clauses += count;
+    s.literals += count * length;
+    s.longest_clause = std::max(s.longest_clause, length);
+  };
+  // Full adder, per side: 4 clauses of 4 literals (sum) and 3 of 3 (carry).
+  // Half adder: upper 3 of 3; lower 2 of 3 (sum) and 2 of 2 (carry).
+  const std::uint64_t sides_built = (has_upper(which) ? 1U : 0U) + (has_lower(which) ? 1U : 0U);
+  add(4 * full * sides_built, 4);
+  add(3 * full * sides_built, 3);
+  if (has_upper(which)) add(3 * half, 3);
+  if (has_lower(which)) {
+    add(2 * half, 3);
+    add(2 * half, 2);
+  }
+  return s;
+}
+
 template <class Sink>
 void encode_adder(Sink& out, variable_pool& pool, const normalized_constraint& c, const encode_options& options) {
   if (c.kind == constraint_kind::clause) {
@@ -199,5 +261,25 @@ void encode_adder(Sink& out, variable_pool& pool, const normalized_constraint& c
   const binary_sum sum = build_adder_network(out, pool, c.literals, c.coefficients, which, c.where());
   compare_binary_sum(out, sum, c.rel, c.bound);
 }
+
+// The method table's entry (methods.hpp) and what the pipeline knows of its size.
+struct adder_encoding {
+  static constexpr encoding_descriptor descriptor{
+      "adder",
+      applies::at_most_one | applies::cardinality | applies::linear,
+      false,
+      "Warners 1998 (IPL); Eén & Sörensson 2006 (JSAT)",
+      "O(n log a_max): full adder 8 + 6 clauses, half adder 4 + 3 (one direction: 4 + 3, 2 + 1 or 2 + 2)",
+      "none",
+      true};
+  template <class Sink>
+  static void encode(Sink& out, variable_pool& pool, const normalized_constraint& c, const encode_options& options) {
+    encode_adder(out, pool, c, options);
+  }
+  [[nodiscard]] static std::optional<encoding_size> predict(const normalized_constraint& c,
+                                                            const encode_options& options) {
+    return adder_size(c, options);
+  }
+};
 
 }  // namespace clausewright

@@ -40,6 +40,7 @@
 #include <algorithm>
 #include <array>
 #include <cstdint>
+#include <functional>
 #include <limits>
 #include <map>
 #include <memory_resource>
@@ -49,7 +50,9 @@
 #include <string>
 #include <vector>
 
+#include "../detail/subset_sums.hpp"
 #include "common.hpp"
+#include "descriptor.hpp"
 
 namespace clausewright {
 
@@ -73,12 +76,12 @@ struct bdd_ref {
 };
 
 struct bdd_node {
-  literal variable;    // the node's auxiliary literal
-  std::uint32_t level; // position of its input in bdd_builder::inputs()
-  bdd_ref high;        // child when the input is true
-  bdd_ref low;         // child when the input is false
-  std::int64_t beta;   // the bounds [beta, gamma] this node stands for
-  std::int64_t gamma;  // (for `exactly`, beta == gamma)
+  literal variable;     // the node's auxiliary literal
+  std::uint32_t level;  // position of its input in bdd_builder::inputs()
+  bdd_ref high;         // child when the input is true
+  bdd_ref low;          // child when the input is false
+  std::int64_t beta;    // the bounds [beta, gamma] this node stands for
+  std::int64_t gamma;   // (for `exactly`, beta == gamma)
 };
 
 // Builds diagrams over one weighted sum and keeps every node it made, so the
@@ -97,8 +100,7 @@ class bdd_builder {
   bdd_builder(Sink& out, variable_pool& pool, std::span<const literal> literals,
               std::span<const std::int64_t> coefficients, bdd_shape shape, bool full_equivalence,
               std::uint64_t node_budget = default_bdd_node_budget, error_position where = {})
-      : out_(out), pool_(pool), shape_(shape), full_(full_equivalence), budget_(node_budget),
-        where_(std::move(where)) {
+      : out_(out), pool_(pool), shape_(shape), full_(full_equivalence), budget_(node_budget), where_(std::move(where)) {
     if (literals.size() != coefficients.size())
       throw error(error_id::usage, "the BDD needs one coefficient per literal", where_);
     if (literals.size() >= std::numeric_limits<std::uint32_t>::max())
@@ -193,8 +195,8 @@ class bdd_builder {
     }
     CLAUSEWRIGHT_ASSERT(r.beta <= k && k <= r.gamma, "BDD interval must contain its bound");
     if (entries_ >= budget_)
-      throw error(error_id::over_budget,
-                  "the BDD passed its node budget of " + std::to_string(budget_) + " nodes", where_);
+      throw error(error_id::over_budget, "the BDD passed its node budget of " + std::to_string(budget_) + " nodes",
+                  where_);
     if (low.ref == high.ref) {
       r.ref = low.ref;
     } else {
@@ -308,6 +310,81 @@ class bdd_builder {
   std::uint64_t entries_ = 0;
 };
 
+// A lower bound on the clauses of encode_bdd for <= and >=: the exact
+// number of nodes on up to 64 levels of the diagram. With the
+// inputs in diagram order, a bound r reaches level i for every subset sum s
+// of the inputs above it (r = K - s); the function there, "the inputs from
+// i on sum to at most r", is decided by the largest subset sum of those
+// inputs that is at most r (S_i below), and it is a node of level i exactly
+// when it depends on x_i: some subset sum t of the inputs after i has
+// r - a_i < t <= r. Each node writes at least one clause (a node has a
+// non-true child). Zero when the subset sums are too costly to compute.
+// The count stops once it passes `enough`.
+[[nodiscard]] inline std::uint64_t bdd_clause_lower_bound(
+    const normalized_constraint& c, const encode_options& /*options*/,
+    std::uint64_t enough = std::numeric_limits<std::uint64_t>::max()) {
+  if (c.kind == constraint_kind::clause || c.rel == relation::eq || c.size() < 2) return 0;
+  const normalized_constraint flipped = c.rel == relation::ge ? negated_view(c) : normalized_constraint{};
+  const normalized_constraint& le = c.rel == relation::ge ? flipped : c;
+  if (le.bound < 0) return 0;
+  const auto k = static_cast<std::uint64_t>(le.bound);
+  const std::size_t n = le.size();
+  if (!detail::subset_sums_affordable(2 * n, k)) return 0;
+  std::vector<std::uint64_t> weights;
+  weights.reserve(n);
+  for (const std::int64_t a : le.coefficients) weights.push_back(static_cast<std::uint64_t>(a));
+  std::stable_sort(weights.begin(), weights.end(), std::greater<>());
+  // The sampled levels: up to 64 consecutive ones from n/8 on (so the sums
+  // above them cost n/8 inputs), and the subset sums after each of them
+  // (from the back; those of the small coefficients fill up quickly).
+  const std::size_t first_level = n <= 64 ? 0 : n / 8;
+  std::vector<std::size_t> levels;
+  for (std::size_t i = first_level; i < n && i < first_level + 64; ++i) levels.push_back(i);
+  std::vector<detail::subset_sums> after;  // after[j]: sums of the inputs after levels[j]
+  after.reserve(levels.size());
+  {
+    detail::subset_sums sums(k);
+    std::size_t next = n;
+    for (std::size_t j = levels.size(); j-- > 0;) {
+      for (; next > levels[j] + 1; --next) sums.add(weights[next - 1]);
+      after.push_back(sums);
+    }
+    std::reverse(after.begin(), after.end());
+  }
+  std::vector<std::uint64_t> rest(n + 1, 0);  // sum of the weights from level i on
+  for (std::size_t i = n; i-- > 0;) rest[i] = rest[i + 1] + weights[i];
+  std::uint64_t nodes = 0;
+  detail::subset_sums above(k);  // sums of the inputs above the level
+  std::size_t added = 0;
+  for (std::size_t j = 0; j < levels.size() && nodes <= enough; ++j) {
+    const std::size_t i = levels[j];
+    for (; added < i; ++added) above.add(weights[added]);
+    const std::uint64_t a = weights[i];
+    const detail::subset_sums& later = after[j];  // S_(i+1)
+    // S_i = S_(i+1) and S_(i+1) + a_i; r runs up over [0, min(k, rest_i - 1)].
+    const std::uint64_t last = std::min(k, rest[i] - 1);
+    if (later.full()) {
+      // Every r is its own largest sum, and depends on x_i (t = r): one node
+      // per reachable r, that is per sum s above with k - last <= s.
+      nodes += above.count(k - last, k);
+      continue;
+    }
+    std::uint64_t floor_later = 0;  // largest t in S_(i+1) with t <= r
+    std::uint64_t floor_here = 0;   // largest t in S_i with t <= r
+    std::uint64_t counted = std::numeric_limits<std::uint64_t>::max();
+    for (std::uint64_t r = 0; r <= last; ++r) {
+      if (later.contains(r)) floor_later = r;
+      if (later.contains(r) || (r >= a && later.contains(r - a))) floor_here = r;
+      if (!above.contains(k - r) || floor_here == counted) continue;
+      if (floor_later + a > r) {  // depends on x_i: r - a < t <= r for t = floor_later
+        ++nodes;
+        counted = floor_here;
+      }
+    }
+  }
+  return nodes;
+}
+
 template <class Sink>
 void encode_bdd(Sink& out, variable_pool& pool, const normalized_constraint& c, const encode_options& options,
                 std::uint64_t node_budget = default_bdd_node_budget) {
@@ -323,13 +400,34 @@ void encode_bdd(Sink& out, variable_pool& pool, const normalized_constraint& c, 
   const normalized_constraint flipped = ge ? negated_view(c) : normalized_constraint{};
   const normalized_constraint& le = ge ? flipped : c;
   bdd_builder<Sink> builder(out, pool, le.literals, le.coefficients,
-                            le.rel == relation::eq ? bdd_shape::exactly : bdd_shape::at_most,
-                            options.full_equivalence, node_budget, c.where());
+                            le.rel == relation::eq ? bdd_shape::exactly : bdd_shape::at_most, options.full_equivalence,
+                            node_budget, c.where());
   const bdd_ref root = builder.root(le.bound);
   if (root.is_false())
     out.add_clause(std::span<const literal>());
   else if (root.is_node())
     emit(out, builder.literal_of(root));
 }
+
+// The method table's entry (methods.hpp) and what the pipeline knows of its size.
+struct bdd_encoding {
+  static constexpr encoding_descriptor descriptor{
+      "bdd",
+      applies::at_most_one | applies::cardinality | applies::linear,
+      true,
+      "Abío, Nieuwenhuis, Oliveras, Rodríguez-Carbonell, Mayer-Eichberger 2012 (JAIR); "
+      "Eén & Sörensson 2006 (JSAT)",
+      "one node per distinct interval of bounds, O(nK); per node 2 clauses (<=, >=), 3 (=), 6 (full)",
+      "a budget of 2^20 memo entries (default_bdd_node_budget)",
+      true};
+  template <class Sink>
+  static void encode(Sink& out, variable_pool& pool, const normalized_constraint& c, const encode_options& options) {
+    encode_bdd(out, pool, c, options);
+  }
+  [[nodiscard]] static std::uint64_t lower_bound(const normalized_constraint& c, const encode_options& options,
+                                                 std::uint64_t enough) {
+    return bdd_clause_lower_bound(c, options, enough);
+  }
+};
 
 }  // namespace clausewright

@@ -24,11 +24,14 @@
 // clause x_1 | ... | x_n.
 #pragma once
 
+#include <optional>
+
 #include <algorithm>
 #include <span>
 
 #include "bitwise.hpp"
 #include "common.hpp"
+#include "descriptor.hpp"
 #include "pairwise.hpp"
 
 namespace clausewright {
@@ -52,5 +55,22 @@ void encode_bimander(Sink& out, variable_pool& pool, const normalized_constraint
   encode_bimander_at_most_one(out, pool, c.literals, bimander_default_group_size, options.full_equivalence);
   if (c.kind == constraint_kind::exactly_one) out.add_clause(std::span<const literal>(c.literals));
 }
+
+// The method table's entry (methods.hpp) and what the pipeline knows of its size.
+struct bimander_encoding {
+  static constexpr encoding_descriptor descriptor{
+      "bimander",
+      static_cast<std::uint8_t>(applies::at_most_one),
+      true,
+      "Nguyen & Mai 2015",
+      "groups of 4, b = ceil(log2 ceil(n/4)): b auxiliary variables, n*b + 6 "
+      "clauses per group of 4",
+      "none",
+      false};
+  template <class Sink>
+  static void encode(Sink& out, variable_pool& pool, const normalized_constraint& c, const encode_options& options) {
+    encode_bimander(out, pool, c, options);
+  }
+};
 
 }  // namespace clausewright

@@ -19,6 +19,7 @@
 #include <vector>
 
 #include "common.hpp"
+#include "descriptor.hpp"
 
 namespace clausewright {
 
@@ -92,5 +93,20 @@ void encode_binomial(Sink& out, variable_pool& /*pool*/, const normalized_constr
   if (at_most) detail::emit_subsets(out, c.literals, static_cast<std::size_t>(uk + 1), false);
   if (at_least) detail::emit_subsets(out, c.literals, static_cast<std::size_t>(un - uk + 1), true);
 }
+
+// The method table's entry (methods.hpp) and what the pipeline knows of its size.
+struct binomial_encoding {
+  static constexpr encoding_descriptor descriptor{"binomial",
+                                                  applies::at_most_one | applies::cardinality,
+                                                  true,
+                                                  "folklore (direct encoding)",
+                                                  "0 auxiliary variables; C(n, k+1) clauses for <=, C(n, n-k+1) for >=",
+                                                  "C(n, k+1) clauses: refused before writing past the clause budget",
+                                                  false};
+  template <class Sink>
+  static void encode(Sink& out, variable_pool& pool, const normalized_constraint& c, const encode_options& options) {
+    encode_binomial(out, pool, c, options);
+  }
+};
 
 }  // namespace clausewright

@@ -20,10 +20,12 @@
 
 #include <bit>
 #include <cstdint>
+#include <optional>
 #include <span>
 #include <vector>
 
 #include "common.hpp"
+#include "descriptor.hpp"
 
 namespace clausewright {
 
@@ -76,5 +78,47 @@ void encode_bitwise(Sink& out, variable_pool& pool, const normalized_constraint&
   encode_bitwise_at_most_one(out, pool, c.literals, options.full_equivalence);
   if (c.kind == constraint_kind::exactly_one) out.add_clause(std::span<const literal>(c.literals));
 }
+
+namespace detail {
+
+// Bits of a binary code below n that have bit j set: inputs i < n with bit j
+// of i equal to 1.
+[[nodiscard]] constexpr std::uint64_t codes_with_bit(std::uint64_t n, std::size_t j) noexcept {
+  const std::uint64_t half = std::uint64_t{1} << j;
+  const std::uint64_t period = half * 2;
+  return n / period * half + (n % period > half ? n % period - half : 0);
+}
+
+}  // namespace detail
+
+// The method table's entry (methods.hpp) and what the pipeline knows of its size.
+struct bitwise_encoding {
+  static constexpr encoding_descriptor descriptor{"bitwise",
+                                                  static_cast<std::uint8_t>(applies::at_most_one),
+                                                  true,
+                                                  "Frisch et al. 2005; Prestwich 2007",
+                                                  "ceil(log2 n) auxiliary variables, n*ceil(log2 n) clauses",
+                                                  "none",
+                                                  false};
+  template <class Sink>
+  static void encode(Sink& out, variable_pool& pool, const normalized_constraint& c, const encode_options& options) {
+    encode_bitwise(out, pool, c, options);
+  }
+  [[nodiscard]] static std::optional<encoding_size> predict(const normalized_constraint& c,
+                                                            const encode_options& options) {
+    // Frisch et al. 2005: ceil(log2 n) bits, n ceil(log2 n) binary clauses;
+    // full equivalence adds one clause per bit over the inputs whose code
+    // has that bit set.
+    const auto n = static_cast<std::uint64_t>(c.size());
+    encoding_size s;
+    const std::size_t bits = binary_code_bits(n);
+    s.variables = bits;
+    detail::add_clauses(s, n * bits, 2);
+    if (options.full_equivalence)
+      for (std::size_t j = 0; j < bits; ++j) detail::add_clauses(s, 1, 1 + detail::codes_with_bit(n, j));
+    if (c.kind == constraint_kind::exactly_one) detail::add_clauses(s, 1, n);
+    return s;
+  }
+};
 
 }  // namespace clausewright

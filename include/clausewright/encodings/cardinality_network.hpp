@@ -27,12 +27,15 @@
 #pragma once
 
 #include <algorithm>
+#include <bit>
 #include <cstddef>
 #include <cstdint>
+#include <optional>
 #include <span>
 #include <vector>
 
 #include "common.hpp"
+#include "descriptor.hpp"
 
 namespace clausewright {
 
@@ -157,8 +160,9 @@ unary_outputs build_cardinality_network(Sink& out, variable_pool& pool, std::spa
     for (std::size_t pair = 0; 2 * pair < count; ++pair) {
       const std::size_t lo = 2 * pair * m;
       if (2 * pair + 1 < count) net.merge(lo, 2 * m, 1, m);
-      if (pair != 0) std::copy_n(net.wires.begin() + static_cast<std::ptrdiff_t>(lo), m,
-                                 net.wires.begin() + static_cast<std::ptrdiff_t>(pair * m));
+      if (pair != 0)
+        std::copy_n(net.wires.begin() + static_cast<std::ptrdiff_t>(lo), m,
+                    net.wires.begin() + static_cast<std::ptrdiff_t>(pair * m));
     }
   }
   return detail::take_outputs(net.wires, std::min(inputs.size(), m), which);
@@ -179,5 +183,138 @@ void encode_sorting_network(Sink& out, variable_pool& pool, const normalized_con
     return build_sorting_network(out, pool, c.literals, which);
   });
 }
+
+namespace detail {
+
+// Comparators of a network: `full` ones compute max and min, `half` ones
+// only the max (the last comparator of a simplified merge).
+struct comparator_count {
+  std::uint64_t full = 0;
+  std::uint64_t half = 0;
+  constexpr comparator_count& operator+=(const comparator_count& o) noexcept {
+    full += o.full;
+    half += o.half;
+    return *this;
+  }
+};
+
+// Comparators of comparator_network::merge on a sequence of `length` wires
+// (no constant wire among them) when its first `need` outputs are wanted:
+// the same recursion, without the wires.
+[[nodiscard]] constexpr comparator_count merge_comparators(std::uint64_t length, std::uint64_t need) noexcept {
+  comparator_count c;
+  if (need == 0) return c;
+  if (length <= 2) {
+    (need >= 2 ? c.full : c.half) = 1;
+    return c;
+  }
+  c += merge_comparators(length / 2, std::min(need / 2 + 1, length / 2));
+  c += merge_comparators(length / 2, std::min(need / 2, length / 2));
+  const std::uint64_t pairs = std::min(need / 2, length / 2 - 1);
+  const std::uint64_t full = std::min(pairs, (need - 1) / 2);  // comparator i is full when 2i < need
+  c.full += full;
+  c.half += pairs - full;
+  return c;
+}
+
+// Comparators of Batcher's odd-even merge sort of `length` wires (a power of
+// two): (t^2 - t + 4) 2^(t-2) - 1 for length 2^t, all full.
+[[nodiscard]] constexpr comparator_count sort_comparators(std::uint64_t length) noexcept {
+  if (length < 2) return {};
+  comparator_count c = sort_comparators(length / 2);
+  c += c;
+  c += merge_comparators(length, length);
+  return c;
+}
+
+// Size of a network of `c` comparators built with sides `which`: a full
+// comparator is 2 binary + 1 ternary clauses per side and 2 variables, a
+// half one 2 binary (upper) or 1 ternary (lower) and 1 variable.
+constexpr void add_comparators(encoding_size& s, const comparator_count& c, sides which) noexcept {
+  s.variables += 2 * c.full + c.half;
+  if (has_upper(which)) {
+    add_clauses(s, 2 * (c.full + c.half), 2);
+    add_clauses(s, c.full, 3);
+  }
+  if (has_lower(which)) {
+    add_clauses(s, 2 * c.full, 2);
+    add_clauses(s, c.full + c.half, 3);
+  }
+}
+
+}  // namespace detail
+
+// The method table's entry (methods.hpp) and what the pipeline knows of its size.
+struct cardinality_network_encoding {
+  static constexpr encoding_descriptor descriptor{
+      "cardinality-network",
+      applies::at_most_one | applies::cardinality,
+      true,
+      "Asín, Nieuwenhuis, Oliveras, Rodríguez-Carbonell 2011 (Constraints); Batcher 1968",
+      "O(n log^2 k) comparators, 3 clauses and 2 auxiliary variables each per direction",
+      "none",
+      false};
+  template <class Sink>
+  static void encode(Sink& out, variable_pool& pool, const normalized_constraint& c, const encode_options& options) {
+    encode_cardinality_network(out, pool, c, options);
+  }
+  [[nodiscard]] static std::optional<encoding_size> predict(const normalized_constraint& c,
+                                                            const encode_options& options) {
+    const cardinality_sides need = needed_sides(c);
+    encoding_size s;
+    if (need.impossible) {
+      s.clauses = 1;  // the empty clause
+      return s;
+    }
+    if (!need.at_most && !need.at_least) return s;
+    const sides which = sides_for(c.rel, options);
+    const auto n = static_cast<std::uint64_t>(c.size());
+    const auto k = static_cast<std::uint64_t>(c.bound);
+    const std::uint64_t m = std::bit_ceil(need.at_most ? k + 1 : k);
+    if (n % m != 0) return std::nullopt;  // padding removes comparators
+    const std::uint64_t blocks = n / m;
+    detail::comparator_count total;
+    const auto sort = detail::sort_comparators(m);
+    const auto merge = detail::merge_comparators(2 * m, m);
+    total.full = blocks * sort.full + (blocks - 1) * merge.full;
+    total.half = blocks * sort.half + (blocks - 1) * merge.half;
+    detail::add_comparators(s, total, which);
+    detail::add_clauses(s, (need.at_most ? 1 : 0) + (need.at_least ? 1 : 0), 1);
+    return s;
+  }
+};
+
+// The method table's entry (methods.hpp) and what the pipeline knows of its size.
+struct sorting_network_encoding {
+  static constexpr encoding_descriptor descriptor{
+      "sorting-network",
+      applies::at_most_one | applies::cardinality,
+      true,
+      "Batcher 1968 (odd-even merge sort); Eén & Sörensson 2006 (JSAT)",
+      "n = 2^m: (m^2 - m + 4) * 2^(m-2) - 1 comparators, 3 clauses and 2 auxiliary variables each per "
+      "direction (inputs padded with false to a power of two)",
+      "inputs padded with false to a power of two",
+      false};
+  template <class Sink>
+  static void encode(Sink& out, variable_pool& pool, const normalized_constraint& c, const encode_options& options) {
+    encode_sorting_network(out, pool, c, options);
+  }
+  [[nodiscard]] static std::optional<encoding_size> predict(const normalized_constraint& c,
+                                                            const encode_options& options) {
+    const cardinality_sides need = needed_sides(c);
+    encoding_size s;
+    if (need.impossible) {
+      s.clauses = 1;  // the empty clause
+      return s;
+    }
+    if (!need.at_most && !need.at_least) return s;
+    const sides which = sides_for(c.rel, options);
+    const auto n = static_cast<std::uint64_t>(c.size());
+    if (!std::has_single_bit(n)) return std::nullopt;  // padding removes comparators
+    detail::add_comparators(s, detail::sort_comparators(n), which);
+    detail::add_clauses(s, (need.at_most ? 1 : 0) + (need.at_least ? 1 : 0), 1);
+    return s;
+  }
+};
 
 }  // namespace clausewright

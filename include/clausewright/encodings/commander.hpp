@@ -27,10 +27,12 @@
 
 #include <algorithm>
 #include <cstdint>
+#include <optional>
 #include <span>
 #include <vector>
 
 #include "common.hpp"
+#include "descriptor.hpp"
 #include "pairwise.hpp"
 
 namespace clausewright {
@@ -82,5 +84,22 @@ void encode_commander(Sink& out, variable_pool& pool, const normalized_constrain
   encode_commander_at_most_one(out, pool, c.literals, commander_default_group_size,
                                c.kind == constraint_kind::exactly_one, options.full_equivalence);
 }
+
+// The method table's entry (methods.hpp) and what the pipeline knows of its size.
+struct commander_encoding {
+  static constexpr encoding_descriptor descriptor{
+      "commander",
+      static_cast<std::uint8_t>(applies::at_most_one),
+      true,
+      "Klieber & Kwon 2007",
+      "groups of 3, n = 3^t: (n-3)/2 auxiliary variables, 3n-6 clauses (3.5n-6.5 "
+      "for exactly-one)",
+      "none",
+      false};
+  template <class Sink>
+  static void encode(Sink& out, variable_pool& pool, const normalized_constraint& c, const encode_options& options) {
+    encode_commander(out, pool, c, options);
+  }
+};
 
 }  // namespace clausewright

@@ -33,14 +33,18 @@
 
 #include <algorithm>
 #include <cstdint>
+#include <limits>
 #include <map>
+#include <optional>
 #include <span>
 #include <string>
 #include <unordered_map>
 #include <utility>
 #include <vector>
 
+#include "../detail/subset_sums.hpp"
 #include "common.hpp"
+#include "descriptor.hpp"
 
 namespace clausewright {
 
@@ -71,8 +75,14 @@ class generalized_totalizer_builder {
   generalized_totalizer_builder(Sink& out, variable_pool& pool, std::span<const literal> literals,
                                 std::span<const std::int64_t> coefficients, std::int64_t cap, sides which,
                                 std::uint64_t output_budget, error_position where)
-      : out_(out), pool_(pool), literals_(literals), coefficients_(coefficients), cap_(cap), which_(which),
-        budget_(output_budget), where_(std::move(where)) {}
+      : out_(out),
+        pool_(pool),
+        literals_(literals),
+        coefficients_(coefficients),
+        cap_(cap),
+        which_(which),
+        budget_(output_budget),
+        where_(std::move(where)) {}
 
   std::vector<weighted_output> build(std::size_t first, std::size_t last) {
     if (last - first == 1) return {weighted_output{std::min(coefficients_[first], cap_), literals_[first]}};
@@ -161,13 +171,10 @@ class generalized_totalizer_builder {
 
 // The tree over the given inputs with outputs cut at `cap` (>= 1).
 template <class Sink>
-generalized_totalizer_outputs build_generalized_totalizer(Sink& out, variable_pool& pool,
-                                                          std::span<const literal> literals,
-                                                          std::span<const std::int64_t> coefficients,
-                                                          std::int64_t cap, sides which,
-                                                          const error_position& where = {},
-                                                          std::uint64_t output_budget =
-                                                              default_generalized_totalizer_output_budget) {
+generalized_totalizer_outputs build_generalized_totalizer(
+    Sink& out, variable_pool& pool, std::span<const literal> literals, std::span<const std::int64_t> coefficients,
+    std::int64_t cap, sides which, const error_position& where = {},
+    std::uint64_t output_budget = default_generalized_totalizer_output_budget) {
   if (literals.size() != coefficients.size())
     throw error(error_id::usage, "the generalized totalizer needs one coefficient per literal", where);
   if (cap < 1) throw error(error_id::usage, "the generalized totalizer needs a cut of at least 1", where);
@@ -182,8 +189,8 @@ generalized_totalizer_outputs build_generalized_totalizer(Sink& out, variable_po
   result.cap = cap;
   result.built = which;
   if (literals.empty()) return result;
-  detail::generalized_totalizer_builder<Sink> builder(out, pool, literals, coefficients, cap, which,
-                                                                output_budget, where);
+  detail::generalized_totalizer_builder<Sink> builder(out, pool, literals, coefficients, cap, which, output_budget,
+                                                      where);
   for (const weighted_output& o : builder.build(0, literals.size())) result.outputs.emplace(o.value, o.lit);
   return result;
 }
@@ -196,8 +203,7 @@ void encode_generalized_totalizer(Sink& out, variable_pool& pool, const normaliz
     const std::int64_t cap = detail::checked_add(le.bound, 1, c.where(), "the bound plus one");
     const sides which = options.full_equivalence || le.rel == relation::eq ? sides::both : sides::upper;
     const generalized_totalizer_outputs root =
-        build_generalized_totalizer(out, pool, le.literals, le.coefficients, cap, which, c.where(),
-                                    output_budget);
+        build_generalized_totalizer(out, pool, le.literals, le.coefficients, cap, which, c.where(), output_budget);
     if (const auto top = root.outputs.find(cap); top != root.outputs.end()) emit(out, ~top->second);
     if (le.rel == relation::eq) {
       const auto reach = root.outputs.lower_bound(le.bound);
@@ -208,5 +214,68 @@ void encode_generalized_totalizer(Sink& out, variable_pool& pool, const normaliz
     }
   });
 }
+
+// A lower bound on the clauses of encode_generalized_totalizer, from its
+// root alone: children with p and q distinct sums (cut at K+1) give
+// (p+1)(q+1)-1 upper-side clauses. The distinct sums come from the subset
+// sums of each half, input by input, so the count can stop once the bound
+// passes `enough` (the sums of some of a half's inputs are fewer than its
+// own). Zero when that is too costly to compute.
+[[nodiscard]] inline std::uint64_t generalized_totalizer_clause_lower_bound(
+    const normalized_constraint& c, const encode_options& /*options*/,
+    std::uint64_t enough = std::numeric_limits<std::uint64_t>::max()) {
+  if (c.kind == constraint_kind::clause || c.size() < 2) return 0;
+  const normalized_constraint flipped = c.rel == relation::ge ? negated_view(c) : normalized_constraint{};
+  const normalized_constraint& le = c.rel == relation::ge ? flipped : c;
+  if (le.bound < 0) return 0;
+  const auto cap = static_cast<std::uint64_t>(le.bound) + 1;
+  const std::size_t n = le.size();
+  if (!detail::subset_sums_affordable(n, cap)) return 0;
+  const std::size_t half = n / 2;
+  // A child of one input is a leaf: one output.
+  detail::subset_sums left(cap);
+  detail::subset_sums right(cap);
+  std::uint64_t left_total = 0;
+  std::uint64_t right_total = 0;
+  auto distinct = [cap](const detail::subset_sums& sums, std::uint64_t total) {
+    return sums.count(1, cap - 1) + (total >= cap ? 1 : 0);
+  };
+  std::uint64_t bound = 0;
+  for (std::size_t t = 0; t < n - half; ++t) {
+    if (t < half) {
+      left.add(static_cast<std::uint64_t>(le.coefficients[t]));
+      left_total += static_cast<std::uint64_t>(le.coefficients[t]);
+    }
+    right.add(static_cast<std::uint64_t>(le.coefficients[half + t]));
+    right_total += static_cast<std::uint64_t>(le.coefficients[half + t]);
+    if ((t & 15U) == 15U || t + 1 == n - half) {
+      const std::uint64_t p = half == 1 ? 1 : distinct(left, left_total);
+      const std::uint64_t q = n - half == 1 ? 1 : distinct(right, right_total);
+      bound = (p + 1) * (q + 1) - 1;
+      if (bound > enough) break;
+    }
+  }
+  return bound;
+}
+
+// The method table's entry (methods.hpp) and what the pipeline knows of its size.
+struct generalized_totalizer_encoding {
+  static constexpr encoding_descriptor descriptor{
+      "generalized-totalizer",
+      applies::at_most_one | applies::cardinality | applies::linear,
+      true,
+      "Joshi, Martins, Manquinho 2015 (CP)",
+      "a node of children with p and q distinct sums (cut at K+1): (p+1)(q+1)-1 clauses per direction",
+      "a budget of 2^22 outputs (default_generalized_totalizer_output_budget)",
+      true};
+  template <class Sink>
+  static void encode(Sink& out, variable_pool& pool, const normalized_constraint& c, const encode_options& options) {
+    encode_generalized_totalizer(out, pool, c, options);
+  }
+  [[nodiscard]] static std::uint64_t lower_bound(const normalized_constraint& c, const encode_options& options,
+                                                 std::uint64_t enough) {
+    return generalized_totalizer_clause_lower_bound(c, options, enough);
+  }
+};
 
 }  // namespace clausewright

@@ -18,9 +18,11 @@
 #pragma once
 
 #include <cstdint>
+#include <optional>
 #include <span>
 
 #include "common.hpp"
+#include "descriptor.hpp"
 
 namespace clausewright {
 
@@ -49,5 +51,34 @@ void encode_ladder(Sink& out, variable_pool& pool, const normalized_constraint& 
   encode_ladder_at_most_one(out, pool, c.literals, options.full_equivalence);
   if (c.kind == constraint_kind::exactly_one) out.add_clause(std::span<const literal>(c.literals));
 }
+
+// The method table's entry (methods.hpp) and what the pipeline knows of its size.
+struct ladder_encoding {
+  static constexpr encoding_descriptor descriptor{"ladder",
+                                                  static_cast<std::uint8_t>(applies::at_most_one),
+                                                  true,
+                                                  "Sinz 2005 (CP), k = 1; Gent & Nightingale 2004",
+                                                  "n-1 auxiliary variables, 3n-4 clauses",
+                                                  "none",
+                                                  false};
+  template <class Sink>
+  static void encode(Sink& out, variable_pool& pool, const normalized_constraint& c, const encode_options& options) {
+    encode_ladder(out, pool, c, options);
+  }
+  [[nodiscard]] static std::optional<encoding_size> predict(const normalized_constraint& c,
+                                                            const encode_options& options) {
+    // Sinz 2005 with k = 1 (Gent & Nightingale's ladder): n-1 variables,
+    // 3n-4 binary clauses; full equivalence adds 1 binary and n-2 ternary.
+    const auto n = static_cast<std::uint64_t>(c.size());
+    encoding_size s;
+    if (n >= 2) {
+      s.variables = n - 1;
+      detail::add_clauses(s, 3 * n - 4 + (options.full_equivalence ? 1 : 0), 2);
+      if (options.full_equivalence) detail::add_clauses(s, n - 2, 3);
+    }
+    if (c.kind == constraint_kind::exactly_one) detail::add_clauses(s, 1, n);
+    return s;
+  }
+};
 
 }  // namespace clausewright

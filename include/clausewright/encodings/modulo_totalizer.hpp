@@ -40,10 +40,12 @@
 #include <array>
 #include <cstddef>
 #include <cstdint>
+#include <optional>
 #include <span>
 #include <vector>
 
 #include "common.hpp"
+#include "descriptor.hpp"
 
 namespace clausewright {
 
@@ -151,8 +153,8 @@ class modulo_totalizer_builder {
         for (std::size_t j = i == 0 ? 1 : 0; j <= pb; ++j) {
           const std::size_t s = i + j;
           if (s < p_) {
-            add(clause() << negated(digit(a.remainder, i)) << negated(digit(b.remainder, j))
-                         << digit(v.remainder, s) << carry);
+            add(clause() << negated(digit(a.remainder, i)) << negated(digit(b.remainder, j)) << digit(v.remainder, s)
+                         << carry);
           } else {
             add(clause() << negated(digit(a.remainder, i)) << negated(digit(b.remainder, j)) << carry);
             if (s > p_)
@@ -242,14 +244,16 @@ namespace detail {
 
 // sum lits {<=, =} k with 0 <= k <= n.
 template <class Sink>
-void encode_modulo_at_most(Sink& out, variable_pool& pool, std::span<const literal> lits, std::size_t k,
-                           bool equality, sides which) {
+void encode_modulo_at_most(Sink& out, variable_pool& pool, std::span<const literal> lits, std::size_t k, bool equality,
+                           sides which) {
   const std::size_t p = modulo_divisor(k);
   const std::size_t qk = k / p;
   const std::size_t rk = k % p;
   const modulo_outputs root = build_modulo_totalizer(out, pool, lits, p, qk + 1, which);
-  auto digit = [](const std::vector<literal>& d, std::size_t s) { return s >= 1 && s <= d.size() ? d[s - 1] : literal(); };
-  const literal q_k = digit(root.quotient, qk);       // invalid when qk = 0: Q >= 0 holds
+  auto digit = [](const std::vector<literal>& d, std::size_t s) {
+    return s >= 1 && s <= d.size() ? d[s - 1] : literal();
+  };
+  const literal q_k = digit(root.quotient, qk);         // invalid when qk = 0: Q >= 0 holds
   const literal q_over = digit(root.quotient, qk + 1);  // invalid when the count cannot reach it
   if (q_over.valid()) emit(out, ~q_over);
   if (qk >= 1 && !q_k.valid()) {
@@ -310,5 +314,21 @@ void encode_modulo_totalizer(Sink& out, variable_pool& pool, const normalized_co
   std::transform(c.literals.begin(), c.literals.end(), negated.begin(), [](literal l) { return ~l; });
   detail::encode_modulo_at_most(out, pool, negated, static_cast<std::size_t>(n - k), false, which);
 }
+
+// The method table's entry (methods.hpp) and what the pipeline knows of its size.
+struct modulo_totalizer_encoding {
+  static constexpr encoding_descriptor descriptor{
+      "modulo-totalizer",
+      applies::at_most_one | applies::cardinality,
+      false,
+      "Ogawa, Liu, Hasegawa, Koshimura, Fujita 2013 (ICTAI)",
+      "divisor p = ceil(sqrt k): O(n sqrt k) auxiliary variables and clauses",
+      "none",
+      false};
+  template <class Sink>
+  static void encode(Sink& out, variable_pool& pool, const normalized_constraint& c, const encode_options& options) {
+    encode_modulo_totalizer(out, pool, c, options);
+  }
+};
 
 }  // namespace clausewright

@@ -21,10 +21,12 @@
 
 #include <algorithm>
 #include <cstdint>
+#include <optional>
 #include <span>
 #include <vector>
 
 #include "common.hpp"
+#include "descriptor.hpp"
 #include "pairwise.hpp"
 
 namespace clausewright {
@@ -89,5 +91,21 @@ void encode_product(Sink& out, variable_pool& pool, const normalized_constraint&
   encode_product_at_most_one(out, pool, c.literals, options.full_equivalence);
   if (c.kind == constraint_kind::exactly_one) out.add_clause(std::span<const literal>(c.literals));
 }
+
+// The method table's entry (methods.hpp) and what the pipeline knows of its size.
+struct product_encoding {
+  static constexpr encoding_descriptor descriptor{
+      "product",
+      static_cast<std::uint8_t>(applies::at_most_one),
+      true,
+      "Chen 2010",
+      "2*sqrt(n) + O(n^(1/4)) auxiliary variables, 2n + 4*sqrt(n) + O(n^(1/4)) clauses",
+      "none",
+      false};
+  template <class Sink>
+  static void encode(Sink& out, variable_pool& pool, const normalized_constraint& c, const encode_options& options) {
+    encode_product(out, pool, c, options);
+  }
+};
 
 }  // namespace clausewright

@@ -17,10 +17,12 @@
 
 #include <algorithm>
 #include <cstdint>
+#include <optional>
 #include <span>
 #include <vector>
 
 #include "common.hpp"
+#include "descriptor.hpp"
 
 namespace clausewright {
 
@@ -31,7 +33,8 @@ void encode_sequential_at_most(Sink& out, variable_pool& pool, std::span<const l
   const auto kk = static_cast<std::size_t>(k);
   CLAUSEWRIGHT_ASSERT(k >= 1 && kk < n, "sequential counter needs 1 <= k < n");
   // Registers row by row: s(i,j) = first + (i-1)*k + (j-1), for i = 1..n-1.
-  const std::int32_t first = pool.fresh_block(static_cast<std::int64_t>(kk) * static_cast<std::int64_t>(n - 1)).dimacs();
+  const std::int32_t first =
+      pool.fresh_block(static_cast<std::int64_t>(kk) * static_cast<std::int64_t>(n - 1)).dimacs();
   auto s = [first, kk](std::size_t i, std::size_t j) {
     return literal(first + static_cast<std::int32_t>((i - 1) * kk + (j - 1)));
   };
@@ -71,7 +74,7 @@ unary_outputs build_sequential_counter(Sink& out, variable_pool& pool, std::span
     for (std::size_t j = 1; j <= width; ++j) {
       const literal sij = current[j - 1];
       const bool has_prev_j = j <= previous.size();  // s(i-1,j) exists
-      const bool has_prev_j1 = j >= 2;                // s(i-1,j-1) exists (j-1 <= i-1)
+      const bool has_prev_j1 = j >= 2;               // s(i-1,j-1) exists (j-1 <= i-1)
       if (has_upper(which)) {
         // s(i-1,j) -> s(i,j);  xi & s(i-1,j-1) -> s(i,j)  (s(i-1,0) is true)
         if (has_prev_j) emit(out, ~previous[j - 1], sij);
@@ -124,5 +127,38 @@ void encode_sequential_counter(Sink& out, variable_pool& pool, const normalized_
   if (c.rel != relation::ge && k < counter.size()) emit(out, counter.at_most(k));
   if (c.rel != relation::le) emit(out, counter.at_least(k));
 }
+
+// The method table's entry (methods.hpp) and what the pipeline knows of its size.
+struct sequential_counter_encoding {
+  static constexpr encoding_descriptor descriptor{
+      "sequential-counter",
+      applies::at_most_one | applies::cardinality,
+      true,
+      "Sinz 2005 (CP)",
+      "at most k, 1 <= k < n: k(n-1) auxiliary variables, 2nk + n - 3k - 1 clauses",
+      "k(n-1) auxiliary variables must fit the variable range",
+      true};
+  template <class Sink>
+  static void encode(Sink& out, variable_pool& pool, const normalized_constraint& c, const encode_options& options) {
+    encode_sequential_counter(out, pool, c, options);
+  }
+  [[nodiscard]] static std::optional<encoding_size> predict(const normalized_constraint& c,
+                                                            const encode_options& options) {
+    // Sinz 2005, at most k with 1 <= k < n: k(n-1) variables, 2nk + n - 3k - 1 clauses:
+    // k-1 units ~s(1,j), (n-2)(k-1) ternary ~xi|~s(i-1,j-1)|s(i,j), the rest binary.
+    if (options.full_equivalence || c.rel != relation::le) return std::nullopt;
+    const auto n = static_cast<std::uint64_t>(c.size());
+    const auto k = static_cast<std::uint64_t>(c.bound);
+    encoding_size s;
+    s.variables = k * (n - 1);
+    s.clauses = 2 * n * k + n - 3 * k - 1;
+    const std::uint64_t unit = k - 1;
+    const std::uint64_t ternary = (n - 2) * (k - 1);
+    const std::uint64_t binary = s.clauses - unit - ternary;
+    s.literals = unit + 2 * binary + 3 * ternary;
+    s.longest_clause = ternary != 0 ? 3 : 2;
+    return s;
+  }
+};
 
 }  // namespace clausewright

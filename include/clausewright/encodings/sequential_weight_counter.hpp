@@ -22,10 +22,12 @@
 
 #include <algorithm>
 #include <cstdint>
+#include <optional>
 #include <span>
 #include <string>
 
 #include "common.hpp"
+#include "descriptor.hpp"
 
 namespace clausewright {
 
@@ -39,8 +41,8 @@ inline void check_register_count(std::int64_t rows, std::int64_t width, const va
   if (overflow || registers > left)
     throw error(error_id::over_budget,
                 "the sequential weight counter needs " +
-                    (overflow ? std::string("more than 2^63") : std::to_string(registers)) +
-                    " registers, beyond the " + std::to_string(left) + " variables left",
+                    (overflow ? std::string("more than 2^63") : std::to_string(registers)) + " registers, beyond the " +
+                    std::to_string(left) + " variables left",
                 where);
 }
 
@@ -171,8 +173,8 @@ void encode_sequential_weight_counter(Sink& out, variable_pool& pool, const norm
       return;
     }
     const std::int64_t cut = detail::checked_add(le.bound, 1, c.where(), "the bound plus one");
-    const unary_outputs row = build_sequential_weight_counter(out, pool, le.literals, le.coefficients, cut,
-                                                              sides::both, c.where());
+    const unary_outputs row =
+        build_sequential_weight_counter(out, pool, le.literals, le.coefficients, cut, sides::both, c.where());
     const auto k = static_cast<std::size_t>(le.bound);
     if (k < row.size()) emit(out, row.at_most(k));
     if (le.rel == relation::eq) {
@@ -186,5 +188,65 @@ void encode_sequential_weight_counter(Sink& out, variable_pool& pool, const norm
     }
   });
 }
+
+// The exact size of the published one-directional counter (<= without
+// full equivalence), from the clause list above: rows i < n give w_i binary
+// clauses, rows 1 < i < n another K binary and K - w_i ternary ones, rows
+// i > 1 one binary clause; K(n-1) registers. Empty for other cases.
+[[nodiscard]] inline std::optional<encoding_size> sequential_weight_counter_size(const normalized_constraint& c,
+                                                                                 const encode_options& options) {
+  if (options.full_equivalence || c.rel != relation::le || c.kind == constraint_kind::clause) return std::nullopt;
+  const auto k = static_cast<std::uint64_t>(c.bound);
+  std::uint64_t binary = 0;
+  std::uint64_t ternary = 0;
+  std::uint64_t forced = 0;  // weights above the bound: unit clauses
+  std::vector<std::uint64_t> kept;
+  kept.reserve(c.size());
+  for (const std::int64_t a : c.coefficients) {
+    if (static_cast<std::uint64_t>(a) > k)
+      ++forced;
+    else
+      kept.push_back(static_cast<std::uint64_t>(a));
+  }
+  const std::uint64_t n = kept.size();
+  encoding_size s;
+  if (n >= 2) {
+    for (std::uint64_t i = 1; i <= n; ++i) {
+      const std::uint64_t w = kept[i - 1];
+      if (i < n) {
+        binary += w;
+        if (i > 1) {
+          binary += k;
+          ternary += k - w;
+        }
+      }
+      if (i > 1) ++binary;
+    }
+    s.variables = k * (n - 1);
+  }
+  s.clauses = forced + binary + ternary;
+  s.literals = forced + 2 * binary + 3 * ternary;
+  s.longest_clause = ternary != 0 ? 3 : (binary != 0 ? 2 : (forced != 0 ? 1 : 0));
+  return s;
+}
+
+// The method table's entry (methods.hpp) and what the pipeline knows of its size.
+struct sequential_weight_counter_encoding {
+  static constexpr encoding_descriptor descriptor{"sequential-weight-counter",
+                                                  applies::at_most_one | applies::cardinality | applies::linear,
+                                                  true,
+                                                  "Hölldobler, Manthey, Steinke 2012 (KI)",
+                                                  "<= K: K(n-1) registers, O(nK) clauses",
+                                                  "K(n-1) registers must fit the variable range",
+                                                  true};
+  template <class Sink>
+  static void encode(Sink& out, variable_pool& pool, const normalized_constraint& c, const encode_options& options) {
+    encode_sequential_weight_counter(out, pool, c, options);
+  }
+  [[nodiscard]] static std::optional<encoding_size> predict(const normalized_constraint& c,
+                                                            const encode_options& options) {
+    return sequential_weight_counter_size(c, options);
+  }
+};
 
 }  // namespace clausewright

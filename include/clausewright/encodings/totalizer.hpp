@@ -31,10 +31,12 @@
 #include <algorithm>
 #include <cstddef>
 #include <cstdint>
+#include <optional>
 #include <span>
 #include <vector>
 
 #include "common.hpp"
+#include "descriptor.hpp"
 
 namespace clausewright {
 
@@ -201,11 +203,59 @@ unary_outputs build_totalizer(Sink& out, variable_pool& pool, std::span<const li
   return tree.outputs();
 }
 
+// A lower bound on the clauses of encode_totalizer, from its root alone: the
+// root joins children of p = min(floor(n/2), cut) and q = min(n - floor(n/2),
+// cut) outputs into m = min(p + q, cut) and writes one clause per pair (i, j)
+// with 1 <= i + j <= m (upper side) or i + j <= m - 1 (lower side). O(n).
+[[nodiscard]] inline std::uint64_t totalizer_clause_lower_bound(const normalized_constraint& c,
+                                                                const encode_options& options) {
+  if (!c.unit_coefficients() || c.kind == constraint_kind::clause || c.size() < 2) return 0;
+  const cardinality_sides need = needed_sides(c);
+  if (need.impossible || (!need.at_most && !need.at_least)) return 0;
+  const auto cut = static_cast<std::uint64_t>(need.at_most ? c.bound + 1 : c.bound);
+  const std::uint64_t n = c.size();
+  const std::uint64_t p = std::min(n / 2, cut);
+  const std::uint64_t q = std::min(n - n / 2, cut);
+  const std::uint64_t m = std::min(p + q, cut);
+  const sides which = sides_for(c.rel, options);
+  auto pairs = [p, q](std::uint64_t most) {  // pairs (i, j), i <= p, j <= q, i + j <= most
+    std::uint64_t count = 0;
+    for (std::uint64_t i = 0; i <= std::min(p, most); ++i) count += std::min(q, most - i) + 1;
+    return count;
+  };
+  std::uint64_t bound = 0;
+  if (has_upper(which)) bound += pairs(m) - 1;
+  if (has_lower(which) && m >= 1) bound += pairs(m - 1);
+  return bound;
+}
+
 template <class Sink>
 void encode_totalizer(Sink& out, variable_pool& pool, const normalized_constraint& c, const encode_options& options) {
   detail::encode_with_counter(out, c, options, "the totalizer", [&](std::size_t cut, sides which) {
     return build_totalizer(out, pool, c.literals, cut, which);
   });
 }
+
+// The method table's entry (methods.hpp) and what the pipeline knows of its size.
+struct totalizer_encoding {
+  static constexpr encoding_descriptor descriptor{
+      "totalizer",
+      applies::at_most_one | applies::cardinality,
+      true,
+      "Bailleux & Boufkhad 2003 (CP); outputs cut at k+1, Büttner & Rintanen 2005",
+      "a node joining counts of sizes a and b: (a+1)(b+1)-1 clauses per direction before cutting; "
+      "O(n log k) auxiliary variables, O(nk) clauses",
+      "O(nk) clauses: past the clause budget for large k times n",
+      true};
+  template <class Sink>
+  static void encode(Sink& out, variable_pool& pool, const normalized_constraint& c, const encode_options& options) {
+    encode_totalizer(out, pool, c, options);
+  }
+  [[nodiscard]] static std::uint64_t lower_bound(const normalized_constraint& c, const encode_options& options,
+                                                 std::uint64_t enough) {
+    static_cast<void>(enough);
+    return totalizer_clause_lower_bound(c, options);
+  }
+};
 
 }  // namespace clausewright
