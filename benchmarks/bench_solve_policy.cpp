@@ -349,7 +349,7 @@ std::string describe_shape(const std::vector<cw::normalized_constraint>& rows) {
 bool is_group(const cw::normalized_constraint& c) {
   return c.kind == cw::constraint_kind::at_most_one || c.kind == cw::constraint_kind::exactly_one;
 }
-bool needs_method(const cw::normalized_constraint& c) {
+bool row_needs_method(const cw::normalized_constraint& c) {
   return c.kind == cw::constraint_kind::at_most_one || c.kind == cw::constraint_kind::exactly_one ||
          c.kind == cw::constraint_kind::cardinality || c.kind == cw::constraint_kind::linear;
 }
@@ -374,7 +374,7 @@ instance_result run_instance(const cb::family_instance& f, const std::vector<col
   std::vector<cw::method_id> proposed(rows.size(), cw::method_id::pairwise);
   const double select_start = thread_seconds();
   for (std::size_t i = 0; i < rows.size(); ++i) {
-    if (!needs_method(rows[i])) continue;
+    if (!row_needs_method(rows[i])) continue;
     measured[i] = cw::measure_all(start_pool, rows[i]);
     default_pick[i] = cw::pick(measured[i], cw::selection_policy::balanced, rows[i]);
     proposed[i] = proposed_pick(rows[i], measured[i]);
@@ -386,7 +386,7 @@ instance_result run_instance(const cb::family_instance& f, const std::vector<col
     std::vector<cw::method_id> a(rows.size(), cw::method_id::pairwise);
     bool applies = col.kind != column_kind::single;
     for (std::size_t i = 0; i < rows.size(); ++i) {
-      if (!needs_method(rows[i])) continue;
+      if (!row_needs_method(rows[i])) continue;
       a[i] = default_pick[i];
       if (col.kind == column_kind::proposed) a[i] = proposed[i];
       if (col.kind == column_kind::single && !is_group(rows[i]) && cw::can_encode(col.method, rows[i])) {
@@ -408,7 +408,7 @@ instance_result run_instance(const cb::family_instance& f, const std::vector<col
     std::uint64_t predicted = 0;
     bool over = false;
     for (std::size_t i = 0; i < rows.size(); ++i) {
-      if (!needs_method(rows[i])) continue;
+      if (!row_needs_method(rows[i])) continue;
       if (!is_group(rows[i])) ++picks[std::string(cw::info(assignment[k][i]).name)];
       const auto* m = find_measurement(measured[i], assignment[k][i]);
       if (m == nullptr)
