@@ -39,7 +39,7 @@ using json = nlohmann::ordered_json;
 struct report_request {
   std::string model;
   std::string output;
-  std::string pick = "balanced";
+  std::string pick = std::string(to_string(default_policy));
   std::vector<std::string> methods;
   std::uint64_t budget = default_clause_budget;
   std::uint64_t curve_budget = 1'000'000;
@@ -121,6 +121,7 @@ struct method_sum {
   std::uint64_t vars_max = 0;
   std::uint64_t over_budget = 0;  // constraints whose dry run passed the budget
   std::uint64_t count = 0;
+  bool bytes_known = true;  // stats leaves the bytes of large or stopped encodings unmeasured (null)
 
   void add(const json& m) {
     const std::uint64_t c = as_u64(m["clauses"]);
@@ -128,6 +129,7 @@ struct method_sum {
     clauses += c;
     vars += v;
     bytes += as_u64(m["dimacs_bytes"]);
+    if (!m["dimacs_bytes"].is_number()) bytes_known = false;
     clauses_min = std::min(clauses_min, c);
     clauses_max = std::max(clauses_max, c);
     vars_min = std::min(vars_min, v);
@@ -284,7 +286,9 @@ json page_data(const report_request& r, const json& stats, const shape_collector
   // (stats totals the clauses, not the bytes).
   std::vector<group_sum> groups(shapes.groups().size());
   std::uint64_t picked_bytes = 0;
+  bool picked_bytes_known = true;
   std::map<std::string, std::uint64_t> method_bytes;
+  std::map<std::string, bool> method_bytes_known;
   std::map<std::string, bool> shown;  // methods that apply to some constraint that is not a single clause
   for (const auto& m : method_table) method_bytes[std::string(m.name)] = 0;
   for (std::size_t i = 0; i < constraints.size(); ++i) {
@@ -303,13 +307,17 @@ json page_data(const report_request& r, const json& stats, const shape_collector
       g.picked_clauses += as_u64((*picked)["clauses"]);
       g.picked_vars += as_u64((*picked)["vars"]);
       picked_bytes += as_u64((*picked)["dimacs_bytes"]);
+      if (!(*picked)["dimacs_bytes"].is_number()) picked_bytes_known = false;
     } else {
       ++g.unpicked;
     }
     for (auto& [name, bytes] : method_bytes) {
       const json* own = method_entry(c, name);
       const json* used = own != nullptr ? own : picked;
-      if (used != nullptr) bytes += as_u64((*used)["dimacs_bytes"]);
+      if (used != nullptr) {
+        bytes += as_u64((*used)["dimacs_bytes"]);
+        if (!(*used)["dimacs_bytes"].is_number()) method_bytes_known[name] = false;
+      }
     }
   }
 
@@ -336,7 +344,9 @@ json page_data(const report_request& r, const json& stats, const shape_collector
   }
   data["methods"] = std::move(methods);
 
-  const auto total_entry = [&](const std::string& name, const json& t, std::uint64_t bytes) {
+  // Bytes are null where stats did not measure them for some constraint: a
+  // sum of the measured ones would understate the total.
+  const auto total_entry = [&](const std::string& name, const json& t, std::uint64_t bytes, bool known) {
     json j;
     j["name"] = name;
     j["clauses"] = t["clauses"];
@@ -346,9 +356,9 @@ json page_data(const report_request& r, const json& stats, const shape_collector
     j["wcnf"] = t["wcnf"];
     j["over_budget"] = t["over_budget"];
     j["fallbacks"] = t["fallbacks"];
-    j["dimacs_bytes"] = bytes;
+    j["dimacs_bytes"] = known ? json(bytes) : json(nullptr);
     if (model_bytes && *model_bytes > 0) {
-      j["blowup_bytes"] = static_cast<double>(bytes) / static_cast<double>(*model_bytes);
+      j["blowup_bytes"] = known ? json(static_cast<double>(bytes) / static_cast<double>(*model_bytes)) : json(nullptr);
       j["clauses_per_model_byte"] = static_cast<double>(as_u64(t["clauses"])) / static_cast<double>(*model_bytes);
     } else {
       j["blowup_bytes"] = nullptr;
@@ -357,10 +367,10 @@ json page_data(const report_request& r, const json& stats, const shape_collector
     return j;
   };
   json totals = json::array();
-  totals.push_back(total_entry("picked", stats["totals"]["picked"], picked_bytes));
+  totals.push_back(total_entry("picked", stats["totals"]["picked"], picked_bytes, picked_bytes_known));
   for (const json& t : stats["totals"]["by_method"]) {
     const std::string name = t["name"].get<std::string>();
-    if (shown.contains(name)) totals.push_back(total_entry(name, t, method_bytes[name]));
+    if (shown.contains(name)) totals.push_back(total_entry(name, t, method_bytes[name], !method_bytes_known.contains(name)));
   }
   data["totals"] = std::move(totals);
 
@@ -414,7 +424,7 @@ json page_data(const report_request& r, const json& stats, const shape_collector
       e["name"] = std::string(m.name);
       e["clauses"] = s.clauses;
       e["vars"] = s.vars;
-      e["dimacs_bytes"] = s.bytes;
+      e["dimacs_bytes"] = s.bytes_known ? json(s.bytes) : json(nullptr);
       e["clauses_min"] = s.clauses_min;
       e["clauses_max"] = s.clauses_max;
       e["vars_min"] = s.vars_min;

@@ -241,11 +241,11 @@ int report_unknown(const solve_request& r, const model& m, solver_clock::time_po
     out["solutions"] = 0;
     out["solver_calls"] = 0;
     out["seconds"] = seconds;
-    std::printf("%s\n", out.dump(2).c_str());
+    out_printf("%s\n", out.dump(2).c_str());
   } else {
-    std::fputs("status unknown\n", stdout);
+    out_text("status unknown\n");
   }
-  return exit_success;
+  return exit_unknown;
 }
 
 int run_solve(const solve_request& r) {

@@ -234,10 +234,12 @@ std::string summary(const json& data) {
        "constraints only; CNF header: " + fmt_int(u64(picked["cnf"]["clauses"])));
   card("auxiliary variables (picked)", fmt_int(u64(picked["vars"])), "data-total-vars",
        std::to_string(u64(picked["vars"])), "CNF variables: " + fmt_int(u64(picked["cnf"]["variables"])));
-  card("DIMACS bytes of the clauses", fmt_int(u64(picked["dimacs_bytes"])), "data-dimacs-bytes",
-       std::to_string(u64(picked["dimacs_bytes"])),
-       data["model_bytes"].is_number() ? "model file: " + fmt_int(u64(data["model_bytes"])) + " bytes"
-                                       : "model read from standard input");
+  const bool bytes_known = picked["dimacs_bytes"].is_number();
+  card("DIMACS bytes of the clauses", bytes_known ? fmt_int(u64(picked["dimacs_bytes"])) : "not measured",
+       "data-dimacs-bytes", bytes_known ? std::to_string(u64(picked["dimacs_bytes"])) : "",
+       !bytes_known                     ? "stats measures bytes only for encodings of up to 65 536 clauses"
+       : data["model_bytes"].is_number() ? "model file: " + fmt_int(u64(data["model_bytes"])) + " bytes"
+                                         : "model read from standard input");
   if (picked["blowup_bytes"].is_number()) {
     const double f = picked["blowup_bytes"].get<double>();
     card("blow-up", fmt_factor(f), "data-blowup", fmt_double(f, 6),
@@ -251,7 +253,10 @@ std::string summary(const json& data) {
 // unknown.
 std::string totals_chart(const json& data) {
   const json& totals = data["totals"];
-  const bool factor = data["model_bytes"].is_number() && u64(data["model_bytes"]) > 0;
+  // The factor needs every total's bytes; where stats left some unmeasured,
+  // the chart shows clauses instead.
+  const bool factor = data["model_bytes"].is_number() && u64(data["model_bytes"]) > 0 &&
+                      std::all_of(totals.begin(), totals.end(), [](const json& t) { return t["blowup_bytes"].is_number(); });
   const auto value_of = [&](const json& t) {
     return factor ? t["blowup_bytes"].get<double>() : static_cast<double>(u64(t["clauses"]));
   };
@@ -297,7 +302,7 @@ std::string totals_chart(const json& data) {
     const bool over = t["over_budget"].get<bool>();
     out += "<g class=\"total\" data-method=\"" + html_escape(name) + "\" data-total-clauses=\"" +
            std::to_string(u64(t["clauses"])) + "\" data-total-vars=\"" + std::to_string(u64(t["vars"])) +
-           "\" data-dimacs-bytes=\"" + std::to_string(u64(t["dimacs_bytes"])) + "\">";
+           "\" data-dimacs-bytes=\"" + (t["dimacs_bytes"].is_number() ? std::to_string(u64(t["dimacs_bytes"])) : std::string()) + "\">";
     text(out, left - 10, y + 17, is_picked ? "picked (per constraint)" : name,
          std::string("text-anchor=\"end\" class=\"") + (is_picked ? "row-label strong" : "row-label") + "\"");
     out += "<rect x=\"" + num(left) + "\" y=\"" + num(y + 4) + "\" width=\"" + num(std::max(x - left, 1.0)) +

@@ -235,12 +235,18 @@ void expect_same_numbers(const json& data, const json& stats, const fs::path& mo
   // Methods shown: those that encode some constraint beyond a single clause.
   std::set<std::string> applying;
   std::uint64_t picked_bytes = 0;
+  bool picked_bytes_known = true;  // stats leaves the bytes of large encodings null
   for (const json& c : constraints) {
     if (!trivial_kind(c["kind"])) {
       for (const json& m : c["methods"]) applying.insert(m["name"]);
     }
     for (const json& m : c["methods"])
-      if (c["picked"].is_string() && m["name"] == c["picked"]) picked_bytes += m["dimacs_bytes"].get<std::uint64_t>();
+      if (c["picked"].is_string() && m["name"] == c["picked"]) {
+        if (m["dimacs_bytes"].is_number())
+          picked_bytes += m["dimacs_bytes"].get<std::uint64_t>();
+        else
+          picked_bytes_known = false;
+      }
   }
   std::set<std::string> shown;
   for (const json& m : data["methods"]) shown.insert(m["name"]);
@@ -252,9 +258,14 @@ void expect_same_numbers(const json& data, const json& stats, const fs::path& mo
   EXPECT_EQ(totals[0]["name"], "picked");
   for (const char* field : {"clauses", "vars", "literals", "cnf", "wcnf", "over_budget"})
     EXPECT_EQ(totals[0][field], stats["totals"]["picked"][field]) << field;
-  EXPECT_EQ(totals[0]["dimacs_bytes"], picked_bytes);
-  EXPECT_NEAR(totals[0]["blowup_bytes"].get<double>(),
-              static_cast<double>(picked_bytes) / static_cast<double>(fs::file_size(model)), 1e-9);
+  if (picked_bytes_known) {
+    EXPECT_EQ(totals[0]["dimacs_bytes"], picked_bytes);
+    EXPECT_NEAR(totals[0]["blowup_bytes"].get<double>(),
+                static_cast<double>(picked_bytes) / static_cast<double>(fs::file_size(model)), 1e-9);
+  } else {  // a sum of the measured bytes alone would understate the total
+    EXPECT_TRUE(totals[0]["dimacs_bytes"].is_null());
+    EXPECT_TRUE(totals[0]["blowup_bytes"].is_null());
+  }
   for (std::size_t i = 1; i < totals.size(); ++i) {
     const json* by = nullptr;
     for (const json& t : stats["totals"]["by_method"])
