@@ -1,5 +1,6 @@
 #include "json_model.hpp"
 
+#include <algorithm>
 #include <cmath>
 #include <cstdint>
 #include <limits>
@@ -194,7 +195,12 @@ std::optional<repeated_key> find_repeated_key(std::string_view text) {
       if (!expect_key || stack.empty()) continue;
       expect_key = false;
       std::string key(text.substr(start + 1, i - start - 1));
-      if (escaped) key = json::parse(text.substr(start, i - start + 1)).get<std::string>();
+      if (escaped) {
+        // The document parsed, so a key's escapes are valid; text the parser
+        // did not read as a key (past the document's end) is kept as written.
+        const json decoded = json::parse(text.substr(start, std::min(i, text.size() - 1) - start + 1), nullptr, false);
+        if (decoded.is_string()) key = decoded.get<std::string>();
+      }
       frame& f = stack.back();
       std::optional<std::size_t> first;
       if (f.keys.size() < 16) {
