@@ -57,7 +57,7 @@ cmake --build build/consumer-sub -j "$jobs"
 build/consumer-sub/consumer
 build/consumer-sub/consumer_solve
 
-fuzz_seconds=${CLAUSEWRIGHT_FUZZ_SECONDS:-30}
+fuzz_seconds=${CLAUSEWRIGHT_FUZZ_SECONDS:-20}
 if [[ -x tests/fuzz/run.sh && $fuzz_seconds != 0 ]]; then
   step "fuzzing the readers, ${fuzz_seconds}s each"
   bash tests/fuzz/run.sh build/fuzz "$fuzz_seconds"
