@@ -62,11 +62,13 @@ class encode_front final : public model_handler {
         header_(std::move(header)),
         comments_(comments),
         progress_(progress != nullptr && progress->enabled() ? progress : nullptr) {
-    if (comments_) {
-      encoder_.on_constraint = [this](const constraint_outcome& o) { comment(o); };
-    } else if (progress_ != nullptr) {
-      encoder_.on_constraint = [this](const constraint_outcome& /*o*/) { tick(); };
-    }
+    encoder_.on_constraint = [this](const constraint_outcome& o) {
+      never_holds_ = o.kind == constraint_kind::constant_false;
+      if (comments_)
+        comment(o);
+      else if (progress_ != nullptr)
+        tick();
+    };
   }
 
   void begin(const model_header& h) override {
@@ -82,7 +84,10 @@ class encode_front final : public model_handler {
   literal product(std::span<const literal> factors) override { return encoder_.product(factors); }
   void objective(std::span<const term> terms, source_position where) override { encoder_.objective(terms, where); }
   void constraint(const constraint_view& c) override {
+    never_holds_ = false;
     encoder_.constraint(c);
+    // Normalised to false: the output is unsatisfiable, which is worth a word.
+    if (never_holds_) warn_never_holds(c.where(), "encode");
     if (!comments_ && progress_ != nullptr && c.soft() && !weighted_clause_sink<Sink>) tick();
   }
   void end() override { encoder_.end(); }
@@ -109,6 +114,7 @@ class encode_front final : public model_handler {
   std::function<void()> header_;
   bool comments_;
   progress_line* progress_;
+  bool never_holds_ = false;
 };
 
 model_encoding_summary dry_run_cnf(model_stream& in, const model_encoding_settings& settings) {
@@ -179,7 +185,8 @@ int run_encode(const encode_request& r) {
   settings.clause_budget = r.budget;
   settings.objective_bound = r.objective_bound;
   bool wcnf = r.format == "wcnf" || (r.format.empty() && (ends_with(r.output, ".wcnf") || r.older_wcnf));
-  if (r.format == "cnf" && r.older_wcnf) throw error(error_id::usage, "--older-wcnf asks for WCNF, but --format is cnf");
+  if (r.format == "cnf" && r.older_wcnf)
+    throw error(error_id::usage, "--older-wcnf asks for WCNF, but --format is cnf");
   if (r.format != "cnf" && r.format != "wcnf" && !r.format.empty())
     throw error(error_id::usage, "unknown format '" + r.format + "'; valid formats: cnf, wcnf");
   wcnf = wcnf || r.older_wcnf;
@@ -211,8 +218,8 @@ int run_encode(const encode_request& r) {
   // renamed into place only when complete.
   const auto write = [&](byte_output& target) {
     threaded_output out(target);
-    model_encoding_summary written = wcnf ? write_wcnf(in, out, settings, exact, r, progress)
-                                          : write_cnf(in, out, settings, exact, r, progress);
+    model_encoding_summary written =
+        wcnf ? write_wcnf(in, out, settings, exact, r, progress) : write_cnf(in, out, settings, exact, r, progress);
     out.finish();
     return written;
   };
@@ -248,7 +255,8 @@ void register_encode(CLI::App& app, command_context& context) {
                   "or the policy")
       ->allow_extra_args(false);
   cmd->add_option("--objective-bound", r->objective_bound, "Add \"objective <= B\" as a hard constraint");
-  cmd->add_option("--pick", r->pick, "Selection policy: smallest, smallest-arc-consistent, balanced, propagating (default)");
+  cmd->add_option("--pick", r->pick,
+                  "Selection policy: smallest, smallest-arc-consistent, balanced, propagating (default)");
   cmd->add_flag("--older-wcnf", r->older_wcnf, "WCNF with the older 'p wcnf V C TOP' header and weighted hard clauses");
   cmd->add_flag("--comments", r->comments,
                 "Write comment lines: the variable map (name and number), and per constraint its method and size");

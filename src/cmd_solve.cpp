@@ -276,8 +276,13 @@ int run_solve(const solve_request& r) {
     settings.deadline =
         started + std::chrono::duration_cast<solver_clock::duration>(std::chrono::duration<double>(r.time_limit));
   model_encoding_summary summary;
+  std::vector<std::size_t> never_hold;  // hard constraints normalised to false
   try {
-    summary = encode_model(m, sink, pool, settings);
+    summary = encode_model(m, sink, pool, settings, [&](const constraint_outcome& o) {
+      if (o.kind != constraint_kind::constant_false || o.weight != 0) return;
+      never_hold.push_back(o.index);
+      warn_never_holds(m.constraint(o.index).where(), "solve");
+    });
   } catch (const error& e) {
     if (e.id() != error_id::time_limit) throw;
     std::fprintf(stderr, "clausewright: the time limit passed while encoding (%s)\n", e.what());
@@ -386,12 +391,24 @@ int run_solve(const solve_request& r) {
       out["assignment"] = nullptr;
     }
     out["search"] = std::string(to_string(options.search));
+    json impossible = json::array();
+    for (const std::size_t i : never_hold) {
+      const constraint_view c = m.constraint(i);
+      impossible.push_back({{"index", i},
+                            {"name", c.name.empty() ? json(nullptr) : json(std::string(c.name))},
+                            {"line", c.position.line},
+                            {"column", c.position.column}});
+    }
+    out["never_hold"] = std::move(impossible);
     out["solutions"] = result.solutions;
     out["solver_calls"] = result.solves;
     out["seconds"] = std::chrono::duration<double>(solver_clock::now() - started).count();
     out_printf("%s\n", out.dump(2).c_str());
   } else {
     std::string block = "status " + status + "\n";
+    // An unsatisfiable answer names the constraints that can never hold.
+    if (result.status == optimize_status::unsatisfiable)
+      for (const std::size_t i : never_hold) block += "can never hold: " + m.constraint(i).where().describe() + "\n";
     if (has_solution && optimising) block += "objective " + std::to_string(*result.objective) + "\n";
     if (has_solution && m.soft_constraints() != 0)
       block += "soft cost " + to_string(decoded.soft) + " (" + std::to_string(decoded.soft_unsatisfied) + " of " +

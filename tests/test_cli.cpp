@@ -513,7 +513,14 @@ TEST_F(cli, RoundTripsThroughCadicalAndDecode) {
     const auto cnf = file("m.cnf");
     const auto r = run("encode " + quote(model) + " " + how + " -o " + quote(cnf));
     ASSERT_EQ(r.code, 0) << r.err << g.description;
-    EXPECT_TRUE(r.err.empty()) << r.err;
+    // Nothing on standard error but warnings about constraints that can
+    // never hold (some random rows are; an impossible row makes the model
+    // unsatisfiable, which brute force confirms below).
+    std::istringstream err_lines(r.err);
+    for (std::string line; std::getline(err_lines, line);) {
+      EXPECT_NE(line.find("can never hold"), std::string::npos) << line;
+      EXPECT_FALSE(any) << line << g.description;
+    }
     // CaDiCaL's parser, strict: the header must match the body.
     CaDiCaL::Solver solver;
     solver.set("quiet", 1);
@@ -945,7 +952,7 @@ TEST_F(cli, StatsShowsAStoppedMethodAsMoreThan) {
       EXPECT_TRUE(t["over_budget"].get<bool>());
       EXPECT_GT(t["clauses"].get<std::uint64_t>(), 0U);
     }
-  const auto table = run("stats --budget 1000 " + quote(model));
+  const auto table = run("stats --wide --budget 1000 " + quote(model));
   ASSERT_EQ(table.code, 0) << table.err;
   EXPECT_NE(table.out.find(">9949"), std::string::npos) << table.out;
   EXPECT_NE(table.out.find("more than"), std::string::npos) << table.out;
