@@ -444,8 +444,12 @@ class stats_collector final : public model_handler {
     }
     if (!named) {
       // Unnamed (or partly): the range of indices when it is one.
-      const std::string range =
-          first(g).name.empty() && consecutive ? head + ".." + rows_[g.members.back()].label() : std::string();
+      std::string range;
+      if (first(g).name.empty() && consecutive) {
+        range = head;
+        range += "..";
+        range += rows_[g.members.back()].label();
+      }
       if (!range.empty() && range.size() <= width) return range;
     } else {
       // The common prefix of the names, when it says something ("item*").
@@ -457,7 +461,10 @@ class stats_collector final : public model_handler {
         prefix.resize(n);
         if (prefix.empty()) break;
       }
-      const std::string text = prefix + "* (" + std::to_string(g.members.size()) + ")";
+      std::string text = prefix;
+      text += "* (";
+      text += std::to_string(g.members.size());
+      text += ')';
       if (prefix.size() >= 3 && text.size() <= width) return text;
     }
     if (more.size() + 4 > width) return fit(head, width);
@@ -622,7 +629,10 @@ class stats_collector final : public model_handler {
       const constraint_row& r = rows_[order[k]];
       std::string where = "#" + std::to_string(r.index);
       if (r.position.line != 0) where += ", line " + std::to_string(r.position.line);
-      if (!r.name.empty()) where = " (" + where + ")";
+      if (!r.name.empty()) {
+        where.insert(0, " (");
+        where += ')';
+      }
       const std::string label = r.name.empty() ? where : fit(r.name, w_label - std::min(w_label, where.size())) + where;
       out_printf("  %-*s %-18s %6zu  %-*s %11llu %7s\n", static_cast<int>(w_label), fit(label, w_label).c_str(),
                  kind_text(r).c_str(), r.inputs, static_cast<int>(w_method), largest_method(r).c_str(),

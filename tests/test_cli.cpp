@@ -25,38 +25,21 @@
 #include <string>
 #include <vector>
 
+#include "tool_run.hpp"
+
 namespace fs = std::filesystem;
 namespace cw = clausewright;
 
 namespace {
 
+using tool_run::run_result;
+using tool_run::read_file;
+using tool_run::write_file;
+using tool_run::quote;
+
 const std::string tool = CLAUSEWRIGHT_TOOL_PATH;
 
 // --- running the tool --------------------------------------------------------------
-
-struct run_result {
-  int code = -1;
-  std::string out;
-  std::string err;
-};
-
-std::string read_file(const fs::path& p) {
-  std::ifstream in(p, std::ios::binary);
-  std::stringstream s;
-  s << in.rdbuf();
-  return s.str();
-}
-
-void write_file(const fs::path& p, const std::string& text) {
-  std::ofstream out(p, std::ios::binary);
-  out << text;
-}
-
-std::string quote(const std::string& s) {
-  std::string q = "'";
-  for (const char c : s) q += c == '\'' ? std::string("'\\''") : std::string(1, c);
-  return q + "'";
-}
 
 // A scratch directory per test (tests may run in parallel processes).
 class cli : public ::testing::Test {
@@ -80,16 +63,7 @@ class cli : public ::testing::Test {
 
   // Runs `clausewright ARGS`, standard input from `input` when given.
   run_result run(const std::string& args, const std::string& input = {}) const {
-    const fs::path out = dir_ / ".stdout";
-    const fs::path err = dir_ / ".stderr";
-    std::string command = quote(tool) + " " + args + " >" + quote(out) + " 2>" + quote(err);
-    command += input.empty() ? " </dev/null" : " <" + quote(input);
-    const int status = std::system(command.c_str());
-    run_result r;
-    r.code = WIFEXITED(status) ? WEXITSTATUS(status) : -1;
-    r.out = read_file(out);
-    r.err = read_file(err);
-    return r;
+    return tool_run::run_program(tool, args, dir_, input);
   }
 
   // Files in the directory other than the given ones (left-over temporaries).

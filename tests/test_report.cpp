@@ -30,10 +30,17 @@
 #include <tuple>
 #include <vector>
 
+#include "tool_run.hpp"
+
 namespace fs = std::filesystem;
 using json = nlohmann::json;
 
 namespace {
+
+using tool_run::run_result;
+using tool_run::read_file;
+using tool_run::write_file;
+using tool_run::quote;
 
 const std::string tool = CLAUSEWRIGHT_TOOL_PATH;
 const fs::path examples = CLAUSEWRIGHT_EXAMPLES_DIR;
@@ -43,30 +50,6 @@ const std::string chromium = "/usr/bin/chromium";
 // model is measured in seconds, large enough that most methods fit.
 const std::string stats_budget = "--budget 1000000";
 const std::string report_budget = stats_budget + " --curve-budget 200000";
-
-std::string read_file(const fs::path& p) {
-  std::ifstream in(p, std::ios::binary);
-  std::stringstream s;
-  s << in.rdbuf();
-  return s.str();
-}
-
-void write_file(const fs::path& p, const std::string& text) {
-  std::ofstream out(p, std::ios::binary);
-  out << text;
-}
-
-std::string quote(const std::string& s) {
-  std::string q = "'";
-  for (const char c : s) q += c == '\'' ? std::string("'\\''") : std::string(1, c);
-  return q + "'";
-}
-
-struct run_result {
-  int code = -1;
-  std::string out;
-  std::string err;
-};
 
 // --- PNG ------------------------------------------------------------------------------
 
