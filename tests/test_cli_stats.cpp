@@ -13,6 +13,7 @@
 #include <filesystem>
 #include <map>
 #include <nlohmann/json.hpp>
+#include <optional>
 #include <random>
 #include <set>
 #include <sstream>
@@ -252,6 +253,128 @@ TEST_F(stats_cli, AConstraintThatCanNeverHoldIsNamed) {
   // A model without such a constraint: no warning.
   const fs::path fine = write("fine.opb", "* #variable= 3 #constraint= 1\n+1 x1 +1 x2 +1 x3 >= 3 ;\n");
   EXPECT_FALSE(contains(run("stats " + quote(fine.string())).err, "warning"));
+}
+
+// --- encode --format opb ---------------------------------------------------------------
+
+struct small_term {
+  std::int64_t coefficient;
+  int var;
+  bool negated;
+};
+struct small_row {
+  std::vector<small_term> terms;
+  std::string relation;
+  std::int64_t bound;
+};
+struct small_model {
+  int variables = 8;
+  std::vector<small_row> rows;
+  std::vector<small_term> objective;
+  std::string opb;
+};
+
+// Seeded OPB models with what normalisation must handle: negative
+// coefficients, repeated and complementary literals, forced literals,
+// constraints always true or never true, an objective.
+small_model small_random(std::uint64_t seed) {
+  std::mt19937_64 rng(seed);
+  const auto pick = [&rng](int lo, int hi) { return std::uniform_int_distribution<int>(lo, hi)(rng); };
+  small_model m;
+  const auto term_text = [](const small_term& t) {
+    std::string text = t.coefficient >= 0 ? "+" : "";
+    text += std::to_string(t.coefficient);
+    text += t.negated ? " ~x" : " x";
+    text += std::to_string(t.var);
+    return text;
+  };
+  const int rows = pick(2, 5);
+  for (int r = 0; r < rows; ++r) {
+    small_row row;
+    const int n = pick(2, 6);
+    for (int k = 0; k < n; ++k) row.terms.push_back({pick(-5, 6), pick(1, m.variables), pick(0, 3) == 0});
+    row.relation = pick(0, 2) == 0 ? ">=" : pick(0, 1) == 0 ? "<=" : "=";
+    row.bound = pick(-4, 9);
+    m.rows.push_back(row);
+  }
+  for (int k = 0; k < 4; ++k) m.objective.push_back({pick(-3, 5), pick(1, m.variables), pick(0, 2) == 0});
+  std::string text = "* #variable= " + std::to_string(m.variables) + " #constraint= " + std::to_string(rows) + "\nmin:";
+  for (const auto& t : m.objective) text += " " + term_text(t);
+  text += " ;\n";
+  for (const auto& row : m.rows) {
+    for (const auto& t : row.terms) text += term_text(t) + " ";
+    text += row.relation + " " + std::to_string(row.bound) + " ;\n";
+  }
+  m.opb = text;
+  return m;
+}
+
+std::int64_t sum_under(const std::vector<small_term>& terms, unsigned bits) {
+  std::int64_t s = 0;
+  for (const auto& t : terms) {
+    const bool v = ((bits >> (t.var - 1)) & 1U) != 0;
+    if (t.negated ? !v : v) s += t.coefficient;
+  }
+  return s;
+}
+
+// The least objective over the assignments that satisfy every row (brute
+// force), none when no assignment does.
+std::optional<std::int64_t> brute_optimum(const small_model& m) {
+  std::optional<std::int64_t> best;
+  for (unsigned bits = 0; bits < (1U << m.variables); ++bits) {
+    bool ok = true;
+    for (const auto& row : m.rows) {
+      const std::int64_t s = sum_under(row.terms, bits);
+      ok = ok && (row.relation == ">=" ? s >= row.bound : row.relation == "<=" ? s <= row.bound : s == row.bound);
+    }
+    if (!ok) continue;
+    const std::int64_t v = sum_under(m.objective, bits);
+    if (!best || v < *best) best = v;
+  }
+  return best;
+}
+
+// A CNF file without its comment lines.
+std::string without_comments(const std::string& text) {
+  std::string out;
+  std::istringstream in(text);
+  for (std::string line; std::getline(in, line);)
+    if (line.empty() || line[0] != 'c') out += line + "\n";
+  return out;
+}
+
+TEST_F(stats_cli, OpbOutputReadsBackToTheSameCnf) {
+  for (std::uint64_t seed = 1; seed <= 30; ++seed) {
+    SCOPED_TRACE("seed " + std::to_string(seed));
+    const small_model m = small_random(seed);
+    const fs::path model = write("m.opb", m.opb);
+    const fs::path normalised = dir_ / "n.opb";
+    const run_result w = run("encode --format opb " + quote(model.string()) + " -o " + quote(normalised.string()));
+    ASSERT_EQ(w.code, 0) << w.err;
+    const std::string how = seed % 3 == 0   ? "--method sequential-counter --method adder"
+                            : seed % 3 == 1 ? ""
+                                            : "--pick smallest";
+    const fs::path a = dir_ / "a.cnf";
+    const fs::path b = dir_ / "b.cnf";
+    ASSERT_EQ(run("encode " + how + " " + quote(model.string()) + " -o " + quote(a.string())).code, 0);
+    const run_result again = run("encode " + how + " " + quote(normalised.string()) + " -o " + quote(b.string()));
+    ASSERT_EQ(again.code, 0) << again.err << read_file(normalised);
+    EXPECT_EQ(without_comments(read_file(a)), without_comments(read_file(b))) << m.opb << read_file(normalised);
+#ifdef CLAUSEWRIGHT_TOOL_HAS_SOLVE
+    // The normalised model has the optimum brute force finds for the
+    // original (solve: the embedded CaDiCaL).
+    const std::optional<std::int64_t> best = brute_optimum(m);
+    const run_result solved = run("solve --json " + quote(normalised.string()));
+    const json j = json::parse(solved.out);
+    if (best) {
+      EXPECT_EQ(j["status"], "optimal") << m.opb;
+      EXPECT_EQ(j["total"], *best) << m.opb << read_file(normalised);
+    } else {
+      EXPECT_EQ(j["status"], "unsatisfiable") << m.opb;
+    }
+#endif
+  }
 }
 
 }  // namespace
