@@ -370,7 +370,17 @@ class stats_collector final : public model_handler {
       t.bytes_known = false;
       return;
     }
-    const std::optional<std::uint64_t> b = pool.top() == pool_.top() ? m.bytes : bytes_at(pool, c, m.id, 0);
+    // The bytes differ from the row's (numbered from pool_) only through the
+    // widths of the auxiliary variables: when all of them have one width at
+    // both places, they are the row's.
+    const std::int64_t here = pool_.top();
+    const std::int64_t there = pool.top();
+    const auto v = static_cast<std::int64_t>(m.size.variables);
+    const bool same = here == there || v == 0 ||
+                      (dimacs_literal_width(here + 1) == dimacs_literal_width(here + v) &&
+                       dimacs_literal_width(there + 1) == dimacs_literal_width(there + v) &&
+                       dimacs_literal_width(here + 1) == dimacs_literal_width(there + 1));
+    const std::optional<std::uint64_t> b = same ? m.bytes : bytes_at(pool, c, m.id, 0);
     if (!b) {
       t.bytes_known = false;
       return;
