@@ -15,7 +15,8 @@
 // (the objective function's value, null without an objective or without an
 // assignment), "soft_cost" and "soft_unsatisfied" (with soft constraints:
 // the sum of the weights of the soft constraints not satisfied, and their
-// number), "hard_constraints", "hard_violated" and "violated" (every
+// number), "total" (objective + soft cost, the value `solve` minimises;
+// null when the model has neither), "hard_constraints", "hard_violated" and "violated" (every
 // constraint not satisfied: index, name or null, file, line and column or
 // null, "kind" hard or soft, weight, relation, left_side, bound and
 // "amount", how far the left side is from the nearest value it may take).
@@ -118,6 +119,7 @@ int run_decode(const decode_request& r) {
       out["soft_cost"] = nullptr;
       out["soft_unsatisfied"] = nullptr;
     }
+    out["total"] = nullptr;
     out["hard_constraints"] = m.hard_constraints();
     out["hard_violated"] = nullptr;
     out["violated"] = nullptr;
@@ -180,6 +182,9 @@ int run_decode(const decode_request& r) {
       out["soft_cost"] = number(soft_cost);
       out["soft_unsatisfied"] = soft_violated;
     }
+    const bool costed = m.has_objective() || m.soft_constraints() != 0;
+    out["total"] =
+        costed ? number((m.has_objective() ? m.objective_value(value) : wide_int{0}) + soft_cost) : json(nullptr);
     out["hard_constraints"] = m.hard_constraints();
     out["hard_violated"] = hard_violated;
     json list = json::array();
@@ -221,6 +226,8 @@ int run_decode(const decode_request& r) {
   if (m.soft_constraints() != 0)
     check += "soft cost " + to_string(soft_cost) + " (" + std::to_string(soft_violated) + " of " +
              std::to_string(m.soft_constraints()) + " soft constraints not satisfied)\n";
+  if (m.has_objective() && m.soft_constraints() != 0)
+    check += "total " + to_string(m.objective_value(value) + soft_cost) + " (objective + soft cost)\n";
   if (hard_violated == 0)
     check += "all " + std::to_string(m.hard_constraints()) + " constraints hold\n";
   else

@@ -62,11 +62,13 @@ class encode_front final : public model_handler {
         header_(std::move(header)),
         comments_(comments),
         progress_(progress != nullptr && progress->enabled() ? progress : nullptr) {
-    if (comments_) {
-      encoder_.on_constraint = [this](const constraint_outcome& o) { comment(o); };
-    } else if (progress_ != nullptr) {
-      encoder_.on_constraint = [this](const constraint_outcome& /*o*/) { tick(); };
-    }
+    encoder_.on_constraint = [this](const constraint_outcome& o) {
+      never_holds_ = o.kind == constraint_kind::constant_false;
+      if (comments_)
+        comment(o);
+      else if (progress_ != nullptr)
+        tick();
+    };
   }
 
   void begin(const model_header& h) override {
@@ -82,7 +84,10 @@ class encode_front final : public model_handler {
   literal product(std::span<const literal> factors) override { return encoder_.product(factors); }
   void objective(std::span<const term> terms, source_position where) override { encoder_.objective(terms, where); }
   void constraint(const constraint_view& c) override {
+    never_holds_ = false;
     encoder_.constraint(c);
+    // Normalised to false: the output is unsatisfiable, which is worth a word.
+    if (never_holds_) warn_never_holds(c.where(), "encode");
     if (!comments_ && progress_ != nullptr && c.soft() && !weighted_clause_sink<Sink>) tick();
   }
   void end() override { encoder_.end(); }
@@ -109,6 +114,117 @@ class encode_front final : public model_handler {
   std::function<void()> header_;
   bool comments_;
   progress_line* progress_;
+  bool never_holds_ = false;
+};
+
+// `encode --format opb`: the normalised model in OPB. Hard constraints as
+// normalisation leaves them (the literals it forces as unit constraints
+// first, then the rest; a constant true constraint drops out, a constant
+// false one is written "0 x1 >= 1"), soft constraints and the objective as
+// stated ("[w] ..." and "min:"); products expanded into their factors (a
+// negated product through the bound: a ~p = a - a p). The tool's reader
+// reads it back to the same CNF. Built in memory: the header counts the
+// constraints.
+class opb_front final : public model_handler {
+ public:
+  void begin(const model_header& h) override {
+    user_ = h.variables;
+    next_ = h.variables;
+    file_ = std::string(h.file);
+  }
+  literal product(std::span<const literal> factors) override {
+    products_.emplace_back(factors.begin(), factors.end());
+    return literal(++next_);
+  }
+  void objective(std::span<const term> terms, source_position /*where*/) override {
+    std::int64_t shift = 0;
+    std::string line;
+    for (const term& t : terms) add_term(line, t.coefficient, t.lit, shift);
+    objective_ = "min:" + line + " ;\n";
+    // A negated product leaves a constant OPB cannot state: said in a comment.
+    if (shift != 0)
+      objective_.insert(0, "* the objective below leaves out the constant " + std::to_string(shift) + "\n");
+  }
+  void constraint(const constraint_view& v) override {
+    if (v.soft()) {
+      std::int64_t shift = 0;
+      std::string line = " [" + std::to_string(v.weight) + "]";
+      for (const term& t : v.terms) add_term(line, t.coefficient, t.lit, shift);
+      finish(line, v.rel, v.bound - shift);
+      return;
+    }
+    const normalized_constraint c = normalize_view(v);
+    if (c.kind == constraint_kind::constant_false) warn_never_holds(v.where(), "encode");
+    for (const literal u : c.units) {
+      std::int64_t shift = 0;
+      std::string line;
+      add_term(line, 1, u, shift);
+      finish(line, relation::ge, 1 - shift);
+    }
+    if (c.kind == constraint_kind::constant_true) return;
+    if (c.kind == constraint_kind::constant_false) {
+      std::string line;
+      finish(line, relation::ge, 1);
+      return;
+    }
+    std::int64_t shift = 0;
+    std::string line;
+    for (std::size_t i = 0; i < c.literals.size(); ++i) add_term(line, c.coefficients[i], c.literals[i], shift);
+    finish(line, c.rel, c.bound - shift);
+  }
+  void end() override {}
+
+  [[nodiscard]] std::string text() const {
+    std::string out =
+        "* #variable= " + std::to_string(std::max(user_, 1)) + " #constraint= " + std::to_string(constraints_) + "\n";
+    out += "* the model of " + file_ + " as clausewright normalised it\n";
+    out += objective_;
+    out += body_;
+    return out;
+  }
+
+ private:
+  // " +a x3", " +a x1 x2" (a product), or a negated product as -a p with
+  // the constant a added to `shift`.
+  void add_term(std::string& line, std::int64_t a, literal l, std::int64_t& shift) const {
+    if (a == 0) return;
+    const bool product = l.var() > user_;
+    if (product && l.negative()) {
+      shift += a;
+      a = -a;
+    }
+    line += a > 0 ? " +" : " ";
+    line += std::to_string(a);
+    if (!product) {
+      line += l.negative() ? " ~x" : " x";
+      line += std::to_string(l.var());
+      return;
+    }
+    for (const literal f : products_[static_cast<std::size_t>(l.var() - user_ - 1)]) {
+      line += f.negative() ? " ~x" : " x";
+      line += std::to_string(f.var());
+    }
+  }
+  // Ends a constraint: its terms (" 0 x1" when none are left), relation,
+  // bound.
+  void finish(std::string& line, relation rel, std::int64_t bound) {
+    if (line.empty() || line.back() == ']') line += " 0 x1";
+    body_.append(line, 1);
+    body_ += ' ';
+    body_ += to_string(rel);
+    body_ += ' ';
+    body_ += std::to_string(bound);
+    body_ += " ;\n";
+    ++constraints_;
+  }
+
+  std::int32_t user_ = 0;
+  std::int32_t next_ = 0;
+  std::string file_;
+  std::vector<std::vector<literal>> products_;
+  std::string objective_;
+  std::string body_;
+  std::uint64_t constraints_ = 0;
 };
 
 model_encoding_summary dry_run_cnf(model_stream& in, const model_encoding_settings& settings) {
@@ -179,9 +295,12 @@ int run_encode(const encode_request& r) {
   settings.clause_budget = r.budget;
   settings.objective_bound = r.objective_bound;
   bool wcnf = r.format == "wcnf" || (r.format.empty() && (ends_with(r.output, ".wcnf") || r.older_wcnf));
-  if (r.format == "cnf" && r.older_wcnf) throw error(error_id::usage, "--older-wcnf asks for WCNF, but --format is cnf");
-  if (r.format != "cnf" && r.format != "wcnf" && !r.format.empty())
-    throw error(error_id::usage, "unknown format '" + r.format + "'; valid formats: cnf, wcnf");
+  if (r.format == "cnf" && r.older_wcnf)
+    throw error(error_id::usage, "--older-wcnf asks for WCNF, but --format is cnf");
+  if (r.format != "cnf" && r.format != "wcnf" && r.format != "opb" && !r.format.empty())
+    throw error(error_id::usage, "unknown format '" + r.format + "'; valid formats: cnf, wcnf, opb");
+  const bool opb = r.format == "opb";
+  if (opb && r.older_wcnf) throw error(error_id::usage, "--older-wcnf asks for WCNF, but --format is opb");
   wcnf = wcnf || r.older_wcnf;
   const bool to_stdout = r.output.empty() || r.output == "-";
 
@@ -205,14 +324,32 @@ int run_encode(const encode_request& r) {
   // (standard output, a device, a FIFO; this also means nothing is written
   // there for a malformed model), and for the older WCNF form (its header
   // carries the top weight).
+  if (opb) {
+    opb_front front;
+    in.run(front);
+    const std::string text = front.text();
+    const auto put = [&](byte_output& target) {
+      threaded_output out(target);
+      out.write(text.data(), text.size());
+      out.finish();
+    };
+    if (to_stdout) {
+      fd_output standard_output(STDOUT_FILENO, "standard output");
+      put(standard_output);
+    } else {
+      put(*file);
+      file->commit();
+    }
+    return exit_success;
+  }
   std::optional<model_encoding_summary> exact;
   if (direct || (wcnf && r.older_wcnf)) exact = wcnf ? dry_run_wcnf(in, settings) : dry_run_cnf(in, settings);
   // Writes through threaded_output into standard output, or into a file
   // renamed into place only when complete.
   const auto write = [&](byte_output& target) {
     threaded_output out(target);
-    model_encoding_summary written = wcnf ? write_wcnf(in, out, settings, exact, r, progress)
-                                          : write_cnf(in, out, settings, exact, r, progress);
+    model_encoding_summary written =
+        wcnf ? write_wcnf(in, out, settings, exact, r, progress) : write_cnf(in, out, settings, exact, r, progress);
     out.finish();
     return written;
   };
@@ -239,7 +376,8 @@ void register_encode(CLI::App& app, command_context& context) {
       ->required();
   cmd->add_option("-o,--output", r->output, "Output file (default: standard output)");
   cmd->add_option("--format", r->format,
-                  "cnf or wcnf (default: wcnf when OUT ends in .wcnf, else cnf); CNF keeps the hard constraints only");
+                  "cnf, wcnf or opb (default: wcnf when OUT ends in .wcnf, else cnf); CNF keeps the hard constraints "
+                  "only; opb writes the model as normalised (products expanded, the objective) for OPB readers");
   // One name per --method: a vector option would otherwise swallow MODEL too.
   cmd->add_option("--method", r->methods,
                   "METHOD: encode every constraint this method can encode with it (repeatable; the first that "
@@ -248,7 +386,8 @@ void register_encode(CLI::App& app, command_context& context) {
                   "or the policy")
       ->allow_extra_args(false);
   cmd->add_option("--objective-bound", r->objective_bound, "Add \"objective <= B\" as a hard constraint");
-  cmd->add_option("--pick", r->pick, "Selection policy: smallest, smallest-arc-consistent, balanced, propagating (default)");
+  cmd->add_option("--pick", r->pick,
+                  "Selection policy: smallest, smallest-arc-consistent, balanced, propagating (default)");
   cmd->add_flag("--older-wcnf", r->older_wcnf, "WCNF with the older 'p wcnf V C TOP' header and weighted hard clauses");
   cmd->add_flag("--comments", r->comments,
                 "Write comment lines: the variable map (name and number), and per constraint its method and size");

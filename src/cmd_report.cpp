@@ -108,8 +108,6 @@ class shape_collector final : public model_handler {
   return k == constraint_kind::constant_true || k == constraint_kind::constant_false || k == constraint_kind::clause;
 }
 
-[[nodiscard]] std::uint64_t as_u64(const json& j) { return j.is_number() ? j.get<std::uint64_t>() : 0; }
-
 // Sums of one method over the constraints of a group.
 struct method_sum {
   std::uint64_t clauses = 0;
@@ -124,11 +122,11 @@ struct method_sum {
   bool bytes_known = true;  // stats leaves the bytes of large or stopped encodings unmeasured (null)
 
   void add(const json& m) {
-    const std::uint64_t c = as_u64(m["clauses"]);
-    const std::uint64_t v = as_u64(m["vars"]);
+    const std::uint64_t c = json_u64(m["clauses"]);
+    const std::uint64_t v = json_u64(m["vars"]);
     clauses += c;
     vars += v;
-    bytes += as_u64(m["dimacs_bytes"]);
+    bytes += json_u64(m["dimacs_bytes"]);
     if (!m["dimacs_bytes"].is_number()) bytes_known = false;
     clauses_min = std::min(clauses_min, c);
     clauses_max = std::max(clauses_max, c);
@@ -285,12 +283,7 @@ json page_data(const report_request& r, const json& stats, const shape_collector
   // Groups, and DIMACS bytes of the picked encoding and of each method alone
   // (stats totals the clauses, not the bytes).
   std::vector<group_sum> groups(shapes.groups().size());
-  std::uint64_t picked_bytes = 0;
-  bool picked_bytes_known = true;
-  std::map<std::string, std::uint64_t> method_bytes;
-  std::map<std::string, bool> method_bytes_known;
   std::map<std::string, bool> shown;  // methods that apply to some constraint that is not a single clause
-  for (const auto& m : method_table) method_bytes[std::string(m.name)] = 0;
   for (std::size_t i = 0; i < constraints.size(); ++i) {
     const json& c = constraints[i];
     group_sum& g = groups[group_of[i]];
@@ -301,23 +294,17 @@ json page_data(const report_request& r, const json& stats, const shape_collector
       g.methods[m["name"].get<std::string>()].add(m);
       if (!trivial) shown[m["name"].get<std::string>()] = true;
     }
-    const json* picked = c["picked"].is_string() ? method_entry(c, c["picked"].get<std::string>()) : nullptr;
+    // A constant or a single clause needs no method (picked is null): every
+    // method writes it alike, the first entry stands for them.
+    const json* picked = c["picked"].is_string()            ? method_entry(c, c["picked"].get<std::string>())
+                         : trivial && !c["methods"].empty() ? &c["methods"][0]
+                                                            : nullptr;
     if (picked != nullptr) {
-      ++g.picks[c["picked"].get<std::string>()];
-      g.picked_clauses += as_u64((*picked)["clauses"]);
-      g.picked_vars += as_u64((*picked)["vars"]);
-      picked_bytes += as_u64((*picked)["dimacs_bytes"]);
-      if (!(*picked)["dimacs_bytes"].is_number()) picked_bytes_known = false;
+      if (c["picked"].is_string()) ++g.picks[c["picked"].get<std::string>()];
+      g.picked_clauses += json_u64((*picked)["clauses"]);
+      g.picked_vars += json_u64((*picked)["vars"]);
     } else {
       ++g.unpicked;
-    }
-    for (auto& [name, bytes] : method_bytes) {
-      const json* own = method_entry(c, name);
-      const json* used = own != nullptr ? own : picked;
-      if (used != nullptr) {
-        bytes += as_u64((*used)["dimacs_bytes"]);
-        if (!(*used)["dimacs_bytes"].is_number()) method_bytes_known[name] = false;
-      }
     }
   }
 
@@ -344,9 +331,11 @@ json page_data(const report_request& r, const json& stats, const shape_collector
   }
   data["methods"] = std::move(methods);
 
-  // Bytes are null where stats did not measure them for some constraint: a
-  // sum of the measured ones would understate the total.
-  const auto total_entry = [&](const std::string& name, const json& t, std::uint64_t bytes, bool known) {
+  // Bytes: the exact size of the CNF output past its header (stats counts
+  // them at each output's own numbering); null where a method was stopped.
+  const auto total_entry = [&](const std::string& name, const json& t) {
+    const bool known = t["cnf"]["bytes"].is_number();
+    const std::uint64_t bytes = json_u64(t["cnf"]["bytes"]);
     json j;
     j["name"] = name;
     j["clauses"] = t["clauses"];
@@ -359,7 +348,7 @@ json page_data(const report_request& r, const json& stats, const shape_collector
     j["dimacs_bytes"] = known ? json(bytes) : json(nullptr);
     if (model_bytes && *model_bytes > 0) {
       j["blowup_bytes"] = known ? json(static_cast<double>(bytes) / static_cast<double>(*model_bytes)) : json(nullptr);
-      j["clauses_per_model_byte"] = static_cast<double>(as_u64(t["clauses"])) / static_cast<double>(*model_bytes);
+      j["clauses_per_model_byte"] = static_cast<double>(json_u64(t["clauses"])) / static_cast<double>(*model_bytes);
     } else {
       j["blowup_bytes"] = nullptr;
       j["clauses_per_model_byte"] = nullptr;
@@ -367,10 +356,10 @@ json page_data(const report_request& r, const json& stats, const shape_collector
     return j;
   };
   json totals = json::array();
-  totals.push_back(total_entry("picked", stats["totals"]["picked"], picked_bytes, picked_bytes_known));
+  totals.push_back(total_entry("picked", stats["totals"]["picked"]));
   for (const json& t : stats["totals"]["by_method"]) {
     const std::string name = t["name"].get<std::string>();
-    if (shown.contains(name)) totals.push_back(total_entry(name, t, method_bytes[name], !method_bytes_known.contains(name)));
+    if (shown.contains(name)) totals.push_back(total_entry(name, t));
   }
   data["totals"] = std::move(totals);
 

@@ -20,16 +20,24 @@
 // came before a solution); 4 satisfiable but not proved optimal (the limit or
 // a signal ended the search).
 //
-// Text output: "status S", then "objective V" when there is one (and "soft
-// cost ..." with soft constraints, "lower bound ..." when the search was
-// stopped), then "name = 0|1" per variable of the model. JSON output: an
-// object with "status" ("optimal", "satisfiable", "unsatisfiable",
-// "unknown"), "objective" (the value minimised, an integer, or null without
-// a solution or without an objective), "lower_bound" (proved; null when
-// nothing is proved), "objective_terms" (the objective's own terms, when
-// the model has an objective), "soft_cost" and "soft_unsatisfied" (when it
-// has soft constraints), "assignment" (variable name -> true/false, in the
-// model's order, or null), "search", "solutions", "solver_calls", "seconds".
+// The words are those of decode: "objective" is the objective function's
+// value, "soft cost" the weights of the soft constraints not satisfied,
+// "total" their sum, the value the search minimises (and bounds).
+//
+// Text output: "status S", then "objective V" when the model has an
+// objective, "soft cost ..." with soft constraints, "total T" with both,
+// "lower bound ..." (of the total) when the search was stopped, then
+// "name = 0|1" per variable of the model; an unsatisfiable answer names
+// the constraints that can never hold. JSON output: an object with "status"
+// ("optimal", "satisfiable", "unsatisfiable", "unknown"), "objective" (the
+// objective function's value; null without a solution or without an
+// objective), "soft_cost" and "soft_unsatisfied" (when it has soft
+// constraints), "total" (the value minimised; null without a solution or
+// when nothing is minimised), "lower_bound" (of the total, proved; null when
+// nothing is proved), "assignment" (variable name -> true/false, in the
+// model's order, or null), "search", "never_hold" (hard constraints
+// normalised to false: index, name, line, column), "solutions",
+// "solver_calls", "seconds".
 //
 // --stats first prints the size table of `clausewright stats` for the model
 // (every applicable method on every constraint, and the picks), by running
@@ -230,12 +238,12 @@ int report_unknown(const solve_request& r, const model& m, solver_clock::time_po
     json out;
     out["status"] = "unknown";
     out["objective"] = nullptr;
-    out["lower_bound"] = nullptr;
-    if (m.has_objective()) out["objective_terms"] = nullptr;
     if (m.soft_constraints() != 0) {
       out["soft_cost"] = nullptr;
       out["soft_unsatisfied"] = nullptr;
     }
+    out["total"] = nullptr;
+    out["lower_bound"] = nullptr;
     out["assignment"] = nullptr;
     out["search"] = r.search;
     out["solutions"] = 0;
@@ -276,8 +284,13 @@ int run_solve(const solve_request& r) {
     settings.deadline =
         started + std::chrono::duration_cast<solver_clock::duration>(std::chrono::duration<double>(r.time_limit));
   model_encoding_summary summary;
+  std::vector<std::size_t> never_hold;  // hard constraints normalised to false
   try {
-    summary = encode_model(m, sink, pool, settings);
+    summary = encode_model(m, sink, pool, settings, [&](const constraint_outcome& o) {
+      if (o.kind != constraint_kind::constant_false || o.weight != 0) return;
+      never_hold.push_back(o.index);
+      warn_never_holds(m.constraint(o.index).where(), "solve");
+    });
   } catch (const error& e) {
     if (e.id() != error_id::time_limit) throw;
     std::fprintf(stderr, "clausewright: the time limit passed while encoding (%s)\n", e.what());
@@ -321,7 +334,7 @@ int run_solve(const solve_request& r) {
         ++more;
     }
     if (more != 0) shown += " ... (" + std::to_string(more) + " more)";
-    std::fprintf(stderr, "clausewright: solution %llu: objective %lld (%.3f s); true:%s\n",
+    std::fprintf(stderr, "clausewright: solution %llu: total %lld (%.3f s); true:%s\n",
                  static_cast<unsigned long long>(++found), static_cast<long long>(s.objective), s.seconds,
                  shown.empty() ? " none" : shown.c_str());
   };
@@ -366,17 +379,17 @@ int run_solve(const solve_request& r) {
   if (r.as_json) {
     json out;
     out["status"] = status;
-    out["objective"] = has_solution && optimising ? json(*result.objective) : json(nullptr);
-    out["lower_bound"] =
-        optimising && result.status != optimize_status::unsatisfiable && result.status != optimize_status::unknown
-            ? json(result.lower_bound)
-            : json(nullptr);
-    if (m.has_objective())
-      out["objective_terms"] = has_solution ? json(to_int64(decoded.objective_terms, "the objective")) : json(nullptr);
+    out["objective"] =
+        has_solution && m.has_objective() ? json(to_int64(decoded.objective_terms, "the objective")) : json(nullptr);
     if (m.soft_constraints() != 0) {
       out["soft_cost"] = has_solution ? json(to_int64(decoded.soft, "the soft cost")) : json(nullptr);
       out["soft_unsatisfied"] = has_solution ? json(decoded.soft_unsatisfied) : json(nullptr);
     }
+    out["total"] = has_solution && optimising ? json(*result.objective) : json(nullptr);
+    out["lower_bound"] =
+        optimising && result.status != optimize_status::unsatisfiable && result.status != optimize_status::unknown
+            ? json(result.lower_bound)
+            : json(nullptr);
     if (has_solution) {
       json assignment = json::object();
       for (std::int32_t v = 1; v <= m.variables(); ++v)
@@ -386,18 +399,32 @@ int run_solve(const solve_request& r) {
       out["assignment"] = nullptr;
     }
     out["search"] = std::string(to_string(options.search));
+    json impossible = json::array();
+    for (const std::size_t i : never_hold) {
+      const constraint_view c = m.constraint(i);
+      impossible.push_back({{"index", i},
+                            {"name", c.name.empty() ? json(nullptr) : json(std::string(c.name))},
+                            {"line", c.position.line},
+                            {"column", c.position.column}});
+    }
+    out["never_hold"] = std::move(impossible);
     out["solutions"] = result.solutions;
     out["solver_calls"] = result.solves;
     out["seconds"] = std::chrono::duration<double>(solver_clock::now() - started).count();
     out_printf("%s\n", out.dump(2).c_str());
   } else {
     std::string block = "status " + status + "\n";
-    if (has_solution && optimising) block += "objective " + std::to_string(*result.objective) + "\n";
+    // An unsatisfiable answer names the constraints that can never hold.
+    if (result.status == optimize_status::unsatisfiable)
+      for (const std::size_t i : never_hold) block += "can never hold: " + m.constraint(i).where().describe() + "\n";
+    if (has_solution && m.has_objective()) block += "objective " + to_string(decoded.objective_terms) + "\n";
     if (has_solution && m.soft_constraints() != 0)
       block += "soft cost " + to_string(decoded.soft) + " (" + std::to_string(decoded.soft_unsatisfied) + " of " +
                std::to_string(m.soft_constraints()) + " soft constraints not satisfied)\n";
+    if (has_solution && m.has_objective() && m.soft_constraints() != 0)
+      block += "total " + std::to_string(*result.objective) + " (objective + soft cost)\n";
     if (result.status == optimize_status::satisfiable && optimising)
-      block += "lower bound " + std::to_string(result.lower_bound) + " (not proved optimal)\n";
+      block += "lower bound " + std::to_string(result.lower_bound) + " of the total (not proved optimal)\n";
     if (has_solution) {
       for (std::int32_t v = 1; v <= m.variables(); ++v) {
         block += m.name_of(v);
@@ -450,7 +477,8 @@ void register_solve(CLI::App& app, command_context& context) {
           },
           "SECONDS", "seconds"));
   cmd->add_flag("--json", r->as_json,
-                "Print the result as JSON: status, objective (integer or null), assignment (name -> true/false)");
+                "Print the result as JSON: status, objective, soft_cost, total (integers or null), lower_bound, "
+                "assignment (name -> true/false)");
   cmd->add_option("--search", r->search,
                   "core-boosted (default: cores and the linear relaxation for the lower bound, neighbourhoods and "
                   "solution-improving calls for the best solution), linear (from the top, each solution tightens "

@@ -83,6 +83,10 @@ void out_printf(const char* format, ...) __attribute__((format(printf, 1, 2)));
 // failed write.
 void finish_standard_output();
 
+// Warns on standard error that a constraint can never hold (normalisation
+// made it false), naming it and where it is; `command` says who warns.
+void warn_never_holds(const error_position& where, std::string_view command);
+
 // A progress line on standard error for long runs: shown when standard error
 // is a terminal (or when forced) and the run has taken over a second.
 class progress_line {

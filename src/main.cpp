@@ -1,8 +1,16 @@
 // clausewright: the command-line tool. Subcommands are in cmd_<name>.cpp.
+#include <sys/ioctl.h>
+#include <unistd.h>
+
+#include <algorithm>
 #include <csignal>
 #include <cstdio>
+#include <cstdlib>
 #include <exception>
+#include <memory>
 #include <new>
+#include <sstream>
+#include <string>
 
 #include <clausewright/config.hpp>
 #include <clausewright/error.hpp>
@@ -39,6 +47,67 @@ void install_signal_handlers() {
   static_cast<void>(std::signal(SIGXFSZ, SIG_IGN));
 }
 
+// Help text wrapped to the terminal (80 to 100 columns; 100 when it is not
+// a terminal): CLI11 2.1 prints each description on one line, however long.
+class wrapping_formatter final : public CLI::Formatter {
+ public:
+  explicit wrapping_formatter(std::size_t width) : width_(width) { column_width(30); }
+
+  std::string make_option_desc(const CLI::Option* opt) const override {
+    return wrap(CLI::Formatter::make_option_desc(opt), width_ - get_column_width());
+  }
+  std::string make_subcommand(const CLI::App* sub) const override {
+    std::stringstream out;
+    CLI::detail::format_help(out, sub->get_display_name(true),
+                             wrap(sub->get_description(), width_ - get_column_width()), get_column_width());
+    return out.str();
+  }
+  std::string make_description(const CLI::App* app) const override {
+    return wrap(CLI::Formatter::make_description(app), width_);
+  }
+  std::string make_footer(const CLI::App* app) const override { return wrap(CLI::Formatter::make_footer(app), width_); }
+
+  // `text` with its spaces turned into line breaks so no line passes
+  // `width` (a single longer word stays whole); existing breaks stay.
+  static std::string wrap(const std::string& text, std::size_t width) {
+    std::string out;
+    std::size_t line = 0;  // characters on the current line
+    std::size_t i = 0;
+    while (i < text.size()) {
+      if (text[i] == '\n') {
+        out += '\n';
+        line = 0;
+        ++i;
+        continue;
+      }
+      const std::size_t end = std::min(text.find_first_of(" \n", i), text.size());
+      const std::size_t word = end - i;
+      if (line != 0 && line + 1 + word > width) {
+        out += '\n';
+        line = 0;
+      } else if (line != 0) {
+        out += ' ';
+        ++line;
+      }
+      out.append(text, i, word);
+      line += word;
+      i = end;
+      while (i < text.size() && text[i] == ' ') ++i;
+    }
+    return out;
+  }
+
+ private:
+  std::size_t width_;
+};
+
+std::size_t help_width() {
+  struct winsize size {};
+  if (::ioctl(STDOUT_FILENO, TIOCGWINSZ, &size) == 0 && size.ws_col != 0)
+    return std::clamp<std::size_t>(size.ws_col, 80, 100);
+  return 100;
+}
+
 }  // namespace
 
 int main(int argc, char** argv) {
@@ -46,6 +115,7 @@ int main(int argc, char** argv) {
   CLI::App app{"clausewright: compile at-most-one, cardinality and pseudo-Boolean constraints into CNF"};
   app.set_version_flag("--version", "clausewright " CLAUSEWRIGHT_VERSION_STRING);
   app.require_subcommand(1);
+  app.formatter(std::make_shared<wrapping_formatter>(help_width()));
   app.footer(cwt::exit_code_text);
   cwt::command_context context;
   cwt::register_encode(app, context);

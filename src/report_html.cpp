@@ -94,8 +94,6 @@ std::string fmt_factor(double v) {
 
 std::string num(double v) { return fmt_double(v, 1); }
 
-std::uint64_t u64(const json& j) { return j.is_number() ? j.get<std::uint64_t>() : 0; }
-
 // --- scales -----------------------------------------------------------------------------
 
 struct scale {
@@ -229,16 +227,16 @@ std::string summary(const json& data) {
            attribute + "=\"" + raw + "\">" + html_escape(value) + "</div><div class=\"note\">" + html_escape(note) +
            "</div></div>";
   };
-  card("clauses (picked)", fmt_int(u64(picked["clauses"])), "data-total-clauses",
-       std::to_string(u64(picked["clauses"])),
-       "constraints only; CNF header: " + fmt_int(u64(picked["cnf"]["clauses"])));
-  card("auxiliary variables (picked)", fmt_int(u64(picked["vars"])), "data-total-vars",
-       std::to_string(u64(picked["vars"])), "CNF variables: " + fmt_int(u64(picked["cnf"]["variables"])));
+  card("clauses (picked)", fmt_int(json_u64(picked["clauses"])), "data-total-clauses",
+       std::to_string(json_u64(picked["clauses"])),
+       "constraints only; CNF header: " + fmt_int(json_u64(picked["cnf"]["clauses"])));
+  card("auxiliary variables (picked)", fmt_int(json_u64(picked["vars"])), "data-total-vars",
+       std::to_string(json_u64(picked["vars"])), "CNF variables: " + fmt_int(json_u64(picked["cnf"]["variables"])));
   const bool bytes_known = picked["dimacs_bytes"].is_number();
-  card("DIMACS bytes of the clauses", bytes_known ? fmt_int(u64(picked["dimacs_bytes"])) : "not measured",
-       "data-dimacs-bytes", bytes_known ? std::to_string(u64(picked["dimacs_bytes"])) : "",
-       !bytes_known                     ? "stats measures bytes only for encodings of up to 65 536 clauses"
-       : data["model_bytes"].is_number() ? "model file: " + fmt_int(u64(data["model_bytes"])) + " bytes"
+  card("DIMACS bytes of the clauses", bytes_known ? fmt_int(json_u64(picked["dimacs_bytes"])) : "unknown",
+       "data-dimacs-bytes", bytes_known ? std::to_string(json_u64(picked["dimacs_bytes"])) : "",
+       !bytes_known                      ? "a method was stopped by the budget"
+       : data["model_bytes"].is_number() ? "model file: " + fmt_int(json_u64(data["model_bytes"])) + " bytes"
                                          : "model read from standard input");
   if (picked["blowup_bytes"].is_number()) {
     const double f = picked["blowup_bytes"].get<double>();
@@ -255,10 +253,11 @@ std::string totals_chart(const json& data) {
   const json& totals = data["totals"];
   // The factor needs every total's bytes; where stats left some unmeasured,
   // the chart shows clauses instead.
-  const bool factor = data["model_bytes"].is_number() && u64(data["model_bytes"]) > 0 &&
-                      std::all_of(totals.begin(), totals.end(), [](const json& t) { return t["blowup_bytes"].is_number(); });
+  const bool factor =
+      data["model_bytes"].is_number() && json_u64(data["model_bytes"]) > 0 &&
+      std::all_of(totals.begin(), totals.end(), [](const json& t) { return t["blowup_bytes"].is_number(); });
   const auto value_of = [&](const json& t) {
-    return factor ? t["blowup_bytes"].get<double>() : static_cast<double>(u64(t["clauses"]));
+    return factor ? t["blowup_bytes"].get<double>() : static_cast<double>(json_u64(t["clauses"]));
   };
   double lo = 0;
   double hi = 0;
@@ -301,8 +300,9 @@ std::string totals_chart(const json& data) {
     const double x = v > 0 ? s(v) : left;
     const bool over = t["over_budget"].get<bool>();
     out += "<g class=\"total\" data-method=\"" + html_escape(name) + "\" data-total-clauses=\"" +
-           std::to_string(u64(t["clauses"])) + "\" data-total-vars=\"" + std::to_string(u64(t["vars"])) +
-           "\" data-dimacs-bytes=\"" + (t["dimacs_bytes"].is_number() ? std::to_string(u64(t["dimacs_bytes"])) : std::string()) + "\">";
+           std::to_string(json_u64(t["clauses"])) + "\" data-total-vars=\"" + std::to_string(json_u64(t["vars"])) +
+           "\" data-dimacs-bytes=\"" +
+           (t["dimacs_bytes"].is_number() ? std::to_string(json_u64(t["dimacs_bytes"])) : std::string()) + "\">";
     text(out, left - 10, y + 17, is_picked ? "picked (per constraint)" : name,
          std::string("text-anchor=\"end\" class=\"") + (is_picked ? "row-label strong" : "row-label") + "\"");
     out += "<rect x=\"" + num(left) + "\" y=\"" + num(y + 4) + "\" width=\"" + num(std::max(x - left, 1.0)) +
@@ -314,12 +314,12 @@ std::string totals_chart(const json& data) {
              "\" height=\"" + num(row - 8) + "\" fill=\"url(#hatch)\"/>";
     std::string label = over ? "\xe2\x89\xa5 " : "";
     if (factor) label += fmt_factor(v) + "  \xc2\xb7  ";
-    label += fmt_int(u64(t["clauses"]));
+    label += fmt_int(json_u64(t["clauses"]));
     label += " clauses, ";
-    label += fmt_int(u64(t["vars"]));
+    label += fmt_int(json_u64(t["vars"]));
     label += " vars";
     if (over) label += " (over budget)";
-    if (!is_picked && u64(t["fallbacks"]) != 0) label += ", " + fmt_int(u64(t["fallbacks"])) + " fallbacks";
+    if (!is_picked && json_u64(t["fallbacks"]) != 0) label += ", " + fmt_int(json_u64(t["fallbacks"])) + " fallbacks";
     text(out, std::max(x, left) + 8, y + 17, label,
          std::string("class=\"bar-label") + (is_picked ? " strong" : "") + "\"");
     out += "</g>";
@@ -340,7 +340,7 @@ std::vector<std::string> picks_of(const json& group) {
 }
 
 std::string group_title(const json& g) {
-  std::string s = fmt_int(u64(g["count"])) + " \xc3\x97 " + g["kind"].get<std::string>();
+  std::string s = fmt_int(json_u64(g["count"])) + " \xc3\x97 " + g["kind"].get<std::string>();
   if (g["kind"] == "cardinality" || g["kind"] == "linear")
     s += " " + g["relation"].get<std::string>() + " " + std::to_string(g["bound"].get<std::int64_t>());
   if (g["soft"].get<bool>()) s += " (soft)";
@@ -379,7 +379,7 @@ std::string groups_chart(const json& data) {
   std::size_t bars = 0;
   for (const json* g : shown) {
     for (const json& m : (*g)["methods"]) {
-      const auto c = static_cast<double>(u64(m["clauses"]));
+      const auto c = static_cast<double>(json_u64(m["clauses"]));
       if (c > 0) lo = lo == 0 ? c : std::min(lo, c);
       hi = std::max(hi, c);
       ++bars;
@@ -410,14 +410,14 @@ std::string groups_chart(const json& data) {
     const double start = x;
     for (const json& m : g["methods"]) {
       const std::string name = m["name"].get<std::string>();
-      const auto clauses = static_cast<double>(u64(m["clauses"]));
+      const auto clauses = static_cast<double>(json_u64(m["clauses"]));
       const double y = clauses > 0 ? s(clauses) : bottom;
       const bool picked = std::find(picks.begin(), picks.end(), name) != picks.end();
-      const bool over = u64(m["over_budget"]) != 0;
-      out += "<g data-method=\"" + html_escape(name) + "\" data-group=\"" + std::to_string(u64(g["id"])) +
-             "\" data-clauses=\"" + std::to_string(u64(m["clauses"])) + "\"" + (picked ? " data-picked=\"1\"" : "") +
-             "><title>" +
-             html_escape(name + ": " + fmt_int(u64(m["clauses"])) + " clauses, " + fmt_int(u64(m["vars"])) +
+      const bool over = json_u64(m["over_budget"]) != 0;
+      out += "<g data-method=\"" + html_escape(name) + "\" data-group=\"" + std::to_string(json_u64(g["id"])) +
+             "\" data-clauses=\"" + std::to_string(json_u64(m["clauses"])) + "\"" +
+             (picked ? " data-picked=\"1\"" : "") + "><title>" +
+             html_escape(name + ": " + fmt_int(json_u64(m["clauses"])) + " clauses, " + fmt_int(json_u64(m["vars"])) +
                          " auxiliary variables" + (over ? " (over budget: where the run stopped)" : "") +
                          (picked ? " \xe2\x80\x94 picked" : "")) +
              "</title>";
@@ -443,10 +443,10 @@ std::string groups_chart(const json& data) {
     line(out, start, bottom, x - 3, bottom, text_color);
     // Three short lines: a group may be only a dozen narrow bars wide.
     text(out, mid, bottom + 16,
-         "G" + std::to_string(u64(g["id"])) + " \xc2\xb7 " + fmt_int(u64(g["count"])) + "\xc3\x97",
+         "G" + std::to_string(json_u64(g["id"])) + " \xc2\xb7 " + fmt_int(json_u64(g["count"])) + "\xc3\x97",
          "class=\"group-label\" text-anchor=\"middle\"");
     text(out, mid, bottom + 30, short_shape(g), "class=\"tick\" text-anchor=\"middle\"");
-    text(out, mid, bottom + 44, "n = " + fmt_int(u64(g["inputs"])), "class=\"tick\" text-anchor=\"middle\"");
+    text(out, mid, bottom + 44, "n = " + fmt_int(json_u64(g["inputs"])), "class=\"tick\" text-anchor=\"middle\"");
     x += gap;
   }
   return out + "</svg>";
@@ -565,23 +565,23 @@ std::string growth_chart(const json& curve, int metric, const std::string& title
 std::string curves_section(const json& data) {
   const json& curves = data["curves"];
   if (curves.empty()) return "<p class=\"empty\">No group to draw growth curves for.</p>";
-  const auto budget = static_cast<double>(u64(data["curve_budget"]));
+  const auto budget = static_cast<double>(json_u64(data["curve_budget"]));
   std::map<std::uint64_t, const json*> groups;
-  for (const json& g : data["groups"]) groups[u64(g["id"])] = &g;
+  for (const json& g : data["groups"]) groups[json_u64(g["id"])] = &g;
   std::string out;
   std::uint64_t current = 0;
   for (const json& c : curves) {
-    const std::uint64_t id = u64(c["group"]);
+    const std::uint64_t id = json_u64(c["group"]);
     const json& g = *groups.at(id);
     if (id != current) {
       if (current != 0) out += "</div>";
       current = id;
-      out += "<h3>G" + std::to_string(id) + ": " + html_escape(group_title(g)) + ", n = " + fmt_int(u64(g["inputs"])) +
-             "</h3><div class=\"grid\">";
+      out += "<h3>G" + std::to_string(id) + ": " + html_escape(group_title(g)) +
+             ", n = " + fmt_int(json_u64(g["inputs"])) + "</h3><div class=\"grid\">";
     }
     const bool by_n = c["axis"] == "n";
     const std::string x_title = by_n ? "n (inputs)" : (g["kind"] == "cardinality" ? "k (the bound)" : "the bound");
-    const std::string against = by_n ? " against n" : " against the bound, n = " + fmt_int(u64(g["inputs"]));
+    const std::string against = by_n ? " against n" : " against the bound, n = " + fmt_int(json_u64(g["inputs"]));
     out += growth_chart(c, 1, "Clauses" + against, x_title, budget);
     out += growth_chart(c, 2, "Auxiliary variables" + against, x_title, budget);
   }
@@ -606,25 +606,26 @@ std::string groups_table(const json& data) {
   out += "<th>pick</th><th class=\"num\">group total<br><small>clauses / vars</small></th></tr></thead><tbody>";
   for (const json& g : data["groups"]) {
     const std::vector<std::string> picks = picks_of(g);
-    out += "<tr data-group=\"" + std::to_string(u64(g["id"])) + "\" data-count=\"" + std::to_string(u64(g["count"])) +
-           "\" data-kind=\"" + html_escape(g["kind"].get<std::string>()) + "\" data-inputs=\"" +
-           std::to_string(u64(g["inputs"])) + "\" data-picked-clauses=\"" + std::to_string(u64(g["picked_clauses"])) +
-           "\" data-picked-vars=\"" + std::to_string(u64(g["picked_vars"])) + "\">";
+    out += "<tr data-group=\"" + std::to_string(json_u64(g["id"])) + "\" data-count=\"" +
+           std::to_string(json_u64(g["count"])) + "\" data-kind=\"" + html_escape(g["kind"].get<std::string>()) +
+           "\" data-inputs=\"" + std::to_string(json_u64(g["inputs"])) + "\" data-picked-clauses=\"" +
+           std::to_string(json_u64(g["picked_clauses"])) + "\" data-picked-vars=\"" +
+           std::to_string(json_u64(g["picked_vars"])) + "\">";
     std::string examples;
     for (const json& e : g["examples"]) examples += (examples.empty() ? "" : ", ") + e.get<std::string>();
-    if (u64(g["count"]) > g["examples"].size()) examples += ", \xe2\x80\xa6";
-    out += "<td><b>G" + std::to_string(u64(g["id"])) + "</b><div class=\"examples\" title=\"" + html_escape(examples) +
-           "\">" + html_escape(examples) + "</div></td>";
-    out += "<td class=\"num\">" + fmt_int(u64(g["count"])) + "</td>";
+    if (json_u64(g["count"]) > g["examples"].size()) examples += ", \xe2\x80\xa6";
+    out += "<td><b>G" + std::to_string(json_u64(g["id"])) + "</b><div class=\"examples\" title=\"" +
+           html_escape(examples) + "\">" + html_escape(examples) + "</div></td>";
+    out += "<td class=\"num\">" + fmt_int(json_u64(g["count"])) + "</td>";
     out += "<td>" + html_escape(g["kind"].get<std::string>()) + (g["soft"].get<bool>() ? " <small>soft</small>" : "") +
            "</td>";
-    out += "<td class=\"num\">" + fmt_int(u64(g["inputs"])) + "</td>";
+    out += "<td class=\"num\">" + fmt_int(json_u64(g["inputs"])) + "</td>";
     out += "<td class=\"num\">" + html_escape(g["relation"].get<std::string>()) + " " +
            std::to_string(g["bound"].get<std::int64_t>()) + "</td>";
     if (g["coefficients"].is_object()) {
       const json& c = g["coefficients"];
       out += "<td class=\"num\">" + std::to_string(c["min"].get<std::int64_t>()) + "\xe2\x80\x93" +
-             std::to_string(c["max"].get<std::int64_t>()) + "<small> (" + fmt_int(u64(c["distinct"])) +
+             std::to_string(c["max"].get<std::int64_t>()) + "<small> (" + fmt_int(json_u64(c["distinct"])) +
              " distinct)</small></td>";
     } else {
       out += "<td class=\"num\">1</td>";
@@ -640,40 +641,45 @@ std::string groups_table(const json& data) {
       }
       const json& e = *entry;
       const bool picked = std::find(picks.begin(), picks.end(), name) != picks.end() && !g["trivial"].get<bool>();
-      const bool over = u64(e["over_budget"]) != 0;
-      out +=
-          "<td class=\"cell" + std::string(picked ? " pick" : "") + "\" data-method=\"" + html_escape(name) +
-          "\" data-clauses=\"" + std::to_string(u64(e["clauses"])) + "\" data-vars=\"" +
-          std::to_string(u64(e["vars"])) + "\"" + (picked ? " style=\"--c:" + color_of(name) + "\"" : "") +
-          " title=\"" +
-          html_escape(
-              name + " per constraint: " + fmt_int(u64(e["clauses_min"])) +
-              (u64(e["clauses_min"]) != u64(e["clauses_max"]) ? "\xe2\x80\x93" + fmt_int(u64(e["clauses_max"])) : "") +
-              " clauses, " + fmt_int(u64(e["vars_min"])) +
-              (u64(e["vars_min"]) != u64(e["vars_max"]) ? "\xe2\x80\x93" + fmt_int(u64(e["vars_max"])) : "") +
-              " vars; whole group: " + fmt_int(u64(e["clauses"])) + " clauses, " + fmt_int(u64(e["vars"])) + " vars") +
-          "\">" +
-          (over ? "<span class=\"over\">over</span>" : cell_range(u64(e["clauses_min"]), u64(e["clauses_max"]))) +
-          "<span class=\"vars\">" + cell_range(u64(e["vars_min"]), u64(e["vars_max"])) + "</span></td>";
+      const bool over = json_u64(e["over_budget"]) != 0;
+      out += "<td class=\"cell" + std::string(picked ? " pick" : "") + "\" data-method=\"" + html_escape(name) +
+             "\" data-clauses=\"" + std::to_string(json_u64(e["clauses"])) + "\" data-vars=\"" +
+             std::to_string(json_u64(e["vars"])) + "\"" + (picked ? " style=\"--c:" + color_of(name) + "\"" : "") +
+             " title=\"" +
+             html_escape(name + " per constraint: " + fmt_int(json_u64(e["clauses_min"])) +
+                         (json_u64(e["clauses_min"]) != json_u64(e["clauses_max"])
+                              ? "\xe2\x80\x93" + fmt_int(json_u64(e["clauses_max"]))
+                              : "") +
+                         " clauses, " + fmt_int(json_u64(e["vars_min"])) +
+                         (json_u64(e["vars_min"]) != json_u64(e["vars_max"])
+                              ? "\xe2\x80\x93" + fmt_int(json_u64(e["vars_max"]))
+                              : "") +
+                         " vars; whole group: " + fmt_int(json_u64(e["clauses"])) + " clauses, " +
+                         fmt_int(json_u64(e["vars"])) + " vars") +
+             "\">" +
+             (over ? "<span class=\"over\">over</span>"
+                   : cell_range(json_u64(e["clauses_min"]), json_u64(e["clauses_max"]))) +
+             "<span class=\"vars\">" + cell_range(json_u64(e["vars_min"]), json_u64(e["vars_max"])) + "</span></td>";
     }
     std::string pick;
     if (g["trivial"].get<bool>()) {
       pick = "(any)";
     } else {
       for (const std::string& p : picks)
+        pick += (pick.empty() ? "" : ", ") + p +
+                (picks.size() > 1 ? " \xc3\x97" + std::to_string(json_u64(g["picks"][p])) : "");
+      if (json_u64(g["unpicked"]) != 0)
         pick +=
-            (pick.empty() ? "" : ", ") + p + (picks.size() > 1 ? " \xc3\x97" + std::to_string(u64(g["picks"][p])) : "");
-      if (u64(g["unpicked"]) != 0)
-        pick += (pick.empty() ? "" : ", ") + std::string("over budget \xc3\x97") + std::to_string(u64(g["unpicked"]));
+            (pick.empty() ? "" : ", ") + std::string("over budget \xc3\x97") + std::to_string(json_u64(g["unpicked"]));
     }
     out += "<td class=\"pick-name\">" + html_escape(pick) + "</td><td class=\"num\">" +
-           fmt_int(u64(g["picked_clauses"])) + "<span class=\"vars\">" + fmt_int(u64(g["picked_vars"])) +
+           fmt_int(json_u64(g["picked_clauses"])) + "<span class=\"vars\">" + fmt_int(json_u64(g["picked_vars"])) +
            "</span></td></tr>";
   }
   out += "</tbody></table></div>";
-  if (u64(data["groups_omitted"]) != 0)
-    out += "<p class=\"note\">" + fmt_int(u64(data["groups_omitted"])) + " smaller groups (" +
-           fmt_int(u64(data["constraints_omitted"])) + " constraints) are left out of the table and the data.</p>";
+  if (json_u64(data["groups_omitted"]) != 0)
+    out += "<p class=\"note\">" + fmt_int(json_u64(data["groups_omitted"])) + " smaller groups (" +
+           fmt_int(json_u64(data["constraints_omitted"])) + " constraints) are left out of the table and the data.</p>";
   return out;
 }
 
@@ -854,11 +860,11 @@ std::string render_report_html(const nlohmann::ordered_json& data) {
   std::size_t non_trivial = 0;
   for (const json& g : data["groups"])
     if (!g["trivial"].get<bool>()) ++non_trivial;
-  out += "<div class=\"meta\">" + fmt_int(u64(data["constraints"])) + " constraints in " +
-         fmt_int(data["groups"].size() + u64(data["groups_omitted"])) + " groups of one shape (" +
-         fmt_int(non_trivial) + " beyond single clauses) \xc2\xb7 " + fmt_int(u64(data["user_variables"])) +
+  out += "<div class=\"meta\">" + fmt_int(json_u64(data["constraints"])) + " constraints in " +
+         fmt_int(data["groups"].size() + json_u64(data["groups_omitted"])) + " groups of one shape (" +
+         fmt_int(non_trivial) + " beyond single clauses) \xc2\xb7 " + fmt_int(json_u64(data["user_variables"])) +
          " variables \xc2\xb7 policy " + html_escape(data["policy"].get<std::string>()) + " \xc2\xb7 budget " +
-         fmt_int(u64(data["budget"])) + " clauses per dry run" +
+         fmt_int(json_u64(data["budget"])) + " clauses per dry run" +
          (data["full_equivalence"].get<bool>() ? " \xc2\xb7 full equivalence" : "") + "</div>";
   out += summary(data);
 
@@ -882,7 +888,7 @@ std::string render_report_html(const nlohmann::ordered_json& data) {
       "for s a geometric series (coefficients drawn from the group's own in the same order, the bound in the same "
       "ratio to their sum), then the bound varied with n fixed. Sizes by dry run; a curve stops (\xc3\x97) where a "
       "run passes the curve budget of " +
-      fmt_int(u64(data["curve_budget"])) + " clauses.</p>";
+      fmt_int(json_u64(data["curve_budget"])) + " clauses.</p>";
   out += legend(data["methods"], false);
   out += curves_section(data);
 

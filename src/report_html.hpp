@@ -8,6 +8,7 @@
 // Every string from the model (its file name, constraint names) is escaped.
 #pragma once
 
+#include <cstdint>
 #include <string>
 #include <string_view>
 
@@ -26,6 +27,12 @@ namespace clausewright::tool {
 // JSON text that can stand inside a <script> element: ASCII only, with
 // < > & written as \u escapes (valid JSON, and no "</script>" inside).
 [[nodiscard]] std::string script_safe_json(const nlohmann::ordered_json& data);
+
+// A count of the page data or of the statistics: 0 where it is null (a
+// number not measured; callers look at is_number() to tell).
+[[nodiscard]] inline std::uint64_t json_u64(const nlohmann::ordered_json& j) {
+  return j.is_number() ? j.get<std::uint64_t>() : 0;
+}
 
 // The whole page.
 [[nodiscard]] std::string render_report_html(const nlohmann::ordered_json& data);

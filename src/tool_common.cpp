@@ -148,6 +148,11 @@ void finish_standard_output() {
   stdout_buffer().flush();
 }
 
+void warn_never_holds(const error_position& where, std::string_view command) {
+  std::fprintf(stderr, "clausewright %.*s: warning: %s: this constraint can never hold (normalised to false)\n",
+               static_cast<int>(command.size()), command.data(), where.describe().c_str());
+}
+
 progress_line::progress_line(bool force, bool never)
     : terminal_(::isatty(STDERR_FILENO) == 1), started_(now_seconds()) {
   enabled_ = !never && (force || terminal_);

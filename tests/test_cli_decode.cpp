@@ -21,38 +21,19 @@
 #include <string>
 #include <vector>
 
+#include "tool_run.hpp"
+
 namespace fs = std::filesystem;
 using json = nlohmann::json;
 
 namespace {
 
+using tool_run::quote;
+using tool_run::read_file;
+using tool_run::run_result;
+using tool_run::with_number;
+
 const std::string tool = CLAUSEWRIGHT_TOOL_PATH;
-
-struct run_result {
-  int code = -1;
-  std::string out;
-  std::string err;
-};
-
-std::string read_file(const fs::path& p) {
-  std::ifstream in(p, std::ios::binary);
-  std::stringstream s;
-  s << in.rdbuf();
-  return s.str();
-}
-
-std::string quote(const std::string& s) {
-  std::string q = "'";
-  for (const char c : s) q += c == '\'' ? std::string("'\\''") : std::string(1, c);
-  return q + "'";
-}
-
-// "prefix" + n, appended: g++ 12 warns falsely (-Wrestrict) on the sum.
-std::string with_number(const char* prefix, long long n) {
-  std::string s = prefix;
-  s += std::to_string(n);
-  return s;
-}
 
 // --- a generated model, kept on our side for the evaluation --------------------------
 
@@ -173,17 +154,7 @@ class decode_cli : public ::testing::Test {
     return dir_ / name;
   }
 
-  run_result run(const std::string& args) const {
-    const fs::path out = dir_ / ".stdout";
-    const fs::path err = dir_ / ".stderr";
-    const std::string command = quote(tool) + " " + args + " >" + quote(out) + " 2>" + quote(err) + " </dev/null";
-    const int status = std::system(command.c_str());
-    run_result r;
-    r.code = WIFEXITED(status) ? WEXITSTATUS(status) : -1;
-    r.out = read_file(out);
-    r.err = read_file(err);
-    return r;
-  }
+  run_result run(const std::string& args) const { return tool_run::run_program(tool, args, dir_); }
 
   fs::path dir_;
 };
@@ -233,6 +204,9 @@ void check_report(const gen_model& g, const std::vector<bool>& values, const jso
   } else {
     EXPECT_FALSE(doc.contains("soft_cost"));
   }
+  // The total, in the words solve uses: the objective function's value plus
+  // the soft cost, both computed here from the generator's record.
+  EXPECT_EQ(doc["total"].get<std::int64_t>(), sum_of(g.objective, values) + soft_cost);
   const json& violated = doc["violated"];
   ASSERT_EQ(violated.size(), expected.size()) << doc.dump(2);
   for (std::size_t k = 0; k < expected.size(); ++k) {

@@ -27,33 +27,19 @@
 #include <string>
 #include <vector>
 
+#include "tool_run.hpp"
+
 namespace fs = std::filesystem;
 using json = nlohmann::ordered_json;
 
 namespace {
 
+using tool_run::quote;
+using tool_run::read_file;
+using tool_run::run_result;
+
 const std::string tool = CLAUSEWRIGHT_TOOL_PATH;
 const fs::path models = fs::path(CLAUSEWRIGHT_EXAMPLES_DIR) / "models";
-
-std::string read_file(const fs::path& p) {
-  std::ifstream in(p, std::ios::binary);
-  std::stringstream s;
-  s << in.rdbuf();
-  return s.str();
-}
-
-std::string quote(const std::string& s) {
-  std::string q = "'";
-  for (const char c : s) q += c == '\'' ? std::string("'\\''") : std::string(1, c);
-  return q + "'";
-}
-
-struct run_result {
-  int code = -1;
-  std::string out;
-  std::string err;
-  double seconds = 0;
-};
 
 // --- an evaluator of the JSON model format, independent of the library ----------
 
@@ -164,19 +150,7 @@ class solve_cli : public ::testing::Test {
     std::ofstream(dir_ / name, std::ios::binary) << text;
     return dir_ / name;
   }
-  run_result run(const std::string& args) const {
-    const fs::path out = dir_ / ".stdout";
-    const fs::path err = dir_ / ".stderr";
-    const std::string command = quote(tool) + " " + args + " >" + quote(out) + " 2>" + quote(err) + " </dev/null";
-    const auto start = std::chrono::steady_clock::now();
-    const int status = std::system(command.c_str());
-    run_result r;
-    r.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
-    r.code = WIFEXITED(status) ? WEXITSTATUS(status) : -1;
-    r.out = read_file(out);
-    r.err = read_file(err);
-    return r;
-  }
+  run_result run(const std::string& args) const { return tool_run::run_program(tool, args, dir_); }
   // `solve --json`: the parsed result, after checking what every result has.
   json solve_json(const fs::path& model, const std::string& options = {}) const {
     const run_result r = run("solve " + quote(model.string()) + " --json " + options);
@@ -188,7 +162,8 @@ class solve_cli : public ::testing::Test {
       ADD_FAILURE() << "not JSON: " << e.what() << "\n" << r.out;
       return json::object();
     }
-    EXPECT_TRUE(j.contains("status") && j.contains("objective") && j.contains("assignment")) << r.out;
+    EXPECT_TRUE(j.contains("status") && j.contains("objective") && j.contains("total") && j.contains("assignment"))
+        << r.out;
     const std::string status = j.value("status", "");
     EXPECT_TRUE(status == "optimal" || status == "satisfiable" || status == "unsatisfiable" || status == "unknown")
         << status;
@@ -210,9 +185,13 @@ class solve_cli : public ::testing::Test {
     const auto v = m.value_of(j["assignment"]);
     ASSERT_TRUE(v.has_value()) << "the assignment breaks a hard constraint";
     if (m.optimising()) {
-      EXPECT_EQ(j["objective"].get<std::int64_t>(), *v) << "the objective is the assignment's value";
+      EXPECT_EQ(j["total"].get<std::int64_t>(), *v) << "the total is the assignment's value";
+      // total = objective + soft cost, each labelled on its own.
+      const std::int64_t objective = j["objective"].is_null() ? 0 : j["objective"].get<std::int64_t>();
+      const std::int64_t soft = j.contains("soft_cost") ? j["soft_cost"].get<std::int64_t>() : 0;
+      EXPECT_EQ(j["total"].get<std::int64_t>(), objective + soft) << j;
     } else {
-      EXPECT_TRUE(j["objective"].is_null());
+      EXPECT_TRUE(j["total"].is_null());
     }
   }
 
@@ -237,13 +216,14 @@ TEST_F(solve_cli, KnapsackExampleMatchesTheDynamicProgram) {
     const std::int64_t v = m.doc["objective"][i][0].get<std::int64_t>();
     all += v;
     for (std::int64_t c = capacity; c >= w; --c)
-      best[static_cast<std::size_t>(c)] = std::max(best[static_cast<std::size_t>(c)], best[static_cast<std::size_t>(c - w)] + v);
+      best[static_cast<std::size_t>(c)] =
+          std::max(best[static_cast<std::size_t>(c)], best[static_cast<std::size_t>(c - w)] + v);
   }
   const std::int64_t expected = all - best[static_cast<std::size_t>(capacity)];
   for (const std::string search : {"linear", "binary"}) {
     const json j = solve_json(path, "--search " + search);
     EXPECT_EQ(j["status"], "optimal");
-    EXPECT_EQ(j["objective"], expected);
+    EXPECT_EQ(j["total"], expected);
     EXPECT_EQ(j["lower_bound"], expected);
     expect_consistent(m, j);
   }
@@ -260,7 +240,7 @@ TEST_F(solve_cli, PackingExamplesReachTheirCountingLowerBounds) {
     for (const std::string search : {"linear", "binary"}) {
       const json j = solve_json(models / file, "--search " + search);
       EXPECT_EQ(j["status"], "optimal");
-      EXPECT_EQ(j["objective"], bound);
+      EXPECT_EQ(j["total"], bound);
       expect_consistent(m, j);
     }
   }
@@ -277,9 +257,10 @@ TEST_F(solve_cli, RotaExampleAgreesAcrossSearchesAndBounds) {
     const json j = solve_json(path, options);
     ASSERT_EQ(j["status"], "optimal");
     expect_consistent(m, j);
-    if (!optimum) optimum = j["objective"].get<std::int64_t>();
-    EXPECT_EQ(j["objective"], *optimum);
-    EXPECT_EQ(j["soft_cost"], *optimum);  // no objective terms: the cost is the soft part
+    if (!optimum) optimum = j["total"].get<std::int64_t>();
+    EXPECT_EQ(j["total"], *optimum);
+    EXPECT_EQ(j["soft_cost"], *optimum);  // no objective terms: the total is the soft cost
+    EXPECT_TRUE(j["objective"].is_null()) << "no objective function, no objective value";
   }
   // Every soft constraint satisfied is impossible (the search proves some
   // weight must be given up); the value agrees with the library example.
@@ -316,7 +297,8 @@ json random_model(std::mt19937_64& rng, int round) {
     for (int s = 0; s < shifts; ++s) {
       json staff = json::array();
       for (int p = 0; p < people; ++p) staff.push_back(w(p, s));
-      constraints.push_back({{"type", round % 2 ? "exactly" : "at-least"}, {"literals", staff}, {"k", 1 + coin(rng) % 2}});
+      constraints.push_back(
+          {{"type", round % 2 ? "exactly" : "at-least"}, {"literals", staff}, {"k", 1 + coin(rng) % 2}});
     }
     for (int p = 0; p < people; ++p) {
       json week = json::array();
@@ -350,11 +332,11 @@ TEST_F(solve_cli, GeneratedModelsMatchBruteForce) {
       const json j = solve_json(path, "--search " + search);
       if (!expected) {
         EXPECT_EQ(j["status"], "unsatisfiable");
-        EXPECT_TRUE(j["objective"].is_null());
+        EXPECT_TRUE(j["total"].is_null());
         continue;
       }
       EXPECT_EQ(j["status"], "optimal");
-      EXPECT_EQ(j["objective"], *expected);
+      EXPECT_EQ(j["total"], *expected);
       expect_consistent(m, j);
     }
   }
@@ -363,8 +345,9 @@ TEST_F(solve_cli, GeneratedModelsMatchBruteForce) {
 TEST_F(solve_cli, OpbObjectivesIncludingNegativeCoefficients) {
   // min 3x1 + 2x2 + 4x3 + x4 with at least two of x1..x3 and x3 | x4: the
   // candidates by hand are {x1,x2,x4} = 6, {x2,x3} = 6, {x1,x3} = 7: optimum 6.
-  const auto a = write("a.opb", "* #variable= 4 #constraint= 2\nmin: +3 x1 +2 x2 +4 x3 +1 x4 ;\n"
-                                "+1 x1 +1 x2 +1 x3 >= 2 ;\n+1 x3 +1 x4 >= 1 ;\n");
+  const auto a = write("a.opb",
+                       "* #variable= 4 #constraint= 2\nmin: +3 x1 +2 x2 +4 x3 +1 x4 ;\n"
+                       "+1 x1 +1 x2 +1 x3 >= 2 ;\n+1 x3 +1 x4 >= 1 ;\n");
   // min -5x1 + 2x2 with x1 -> x2 (x1 + ~x2 <= 1): x1 = x2 = 1 gives -3, the
   // others 0 or 2: optimum -3.
   const auto b = write("b.opb", "* #variable= 2 #constraint= 1\nmin: -5 x1 +2 x2 ;\n+1 x1 +1 ~x2 <= 1 ;\n");
@@ -373,7 +356,7 @@ TEST_F(solve_cli, OpbObjectivesIncludingNegativeCoefficients) {
     for (const std::string search : {"linear", "binary"}) {
       const json j = solve_json(path, "--search " + search);
       EXPECT_EQ(j["status"], "optimal");
-      EXPECT_EQ(j["objective"], expected);
+      EXPECT_EQ(j["total"], expected);
     }
   }
   const run_result text = run("solve " + quote(b.string()));
@@ -388,27 +371,32 @@ TEST_F(solve_cli, SatisfiabilityUnsatisfiabilityAndImprovingSolutions) {
                                         {"type": "clause", "literals": ["~a"]}]})");
   const json s = solve_json(sat);
   EXPECT_EQ(s["status"], "satisfiable");
-  EXPECT_TRUE(s["objective"].is_null());
+  EXPECT_TRUE(s["total"].is_null());
   EXPECT_EQ(s["assignment"], json({{"a", false}, {"b", true}, {"c", true}}));  // the only solution, by hand
   // Three people cannot cover a shift that needs four (by hand).
   const auto unsat = write("unsat.json", R"({"constraints": [{"type": "at-least", "literals": ["p", "q", "r"], "k": 4},
                                             {"type": "clause", "literals": ["p"], "weight": 3}]})");
   const json u = solve_json(unsat);
   EXPECT_EQ(u["status"], "unsatisfiable");
-  EXPECT_TRUE(u["objective"].is_null());
+  EXPECT_TRUE(u["total"].is_null());
   EXPECT_TRUE(u["assignment"].is_null());
   const run_result text = run("solve " + quote(unsat.string()));
   EXPECT_EQ(text.code, 1);
-  EXPECT_EQ(text.out, "status unsatisfiable\n");
+  // The answer names the constraint that can never hold (constraint 0, at
+  // least 4 of 3), in text and in JSON.
+  EXPECT_EQ(text.out.rfind("status unsatisfiable\ncan never hold: " + unsat.string() + ":", 0), 0U) << text.out;
+  EXPECT_NE(text.out.find("constraint 0"), std::string::npos) << text.out;
+  ASSERT_EQ(u["never_hold"].size(), 1U) << u;
+  EXPECT_EQ(u["never_hold"][0]["index"], 0);
   // Each improving solution on standard error, strictly better, the last the optimum.
   const run_result k = run("solve " + quote((models / "knapsack.json").string()));
   ASSERT_EQ(k.code, 0) << k.err;
   std::vector<long long> values;
   std::istringstream lines(k.err);
   for (std::string line; std::getline(lines, line);) {
-    const auto at = line.find(": objective ");
+    const auto at = line.find(": total ");
     if (line.rfind("clausewright: solution ", 0) == 0 && at != std::string::npos)
-      values.push_back(std::stoll(line.substr(at + 12)));
+      values.push_back(std::stoll(line.substr(at + 8)));
   }
   ASSERT_FALSE(values.empty()) << k.err;
   for (std::size_t i = 1; i < values.size(); ++i) EXPECT_LT(values[i], values[i - 1]);
@@ -458,23 +446,28 @@ TEST_F(solve_cli, TimeLimitReportsTheBestSoFar) {
     EXPECT_LT(seconds, 10.0) << "the search stops near its limit";
     const std::string status = j.value("status", "");
     ASSERT_TRUE(status == "satisfiable" || status == "optimal") << status;
-    EXPECT_GE(j["objective"].get<std::int64_t>(), 1);  // some pigeon must stay out
+    EXPECT_GE(j["total"].get<std::int64_t>(), 1);  // some pigeon must stay out
     if (status == "optimal") {
-      EXPECT_EQ(j["objective"], 1);
+      EXPECT_EQ(j["total"], 1);
     }
     expect_consistent(m, j);
   }
   const json none = solve_json(path, "--time-limit 0");
   EXPECT_EQ(none["status"], "unknown");
-  EXPECT_TRUE(none["objective"].is_null());
+  EXPECT_TRUE(none["total"].is_null());
 }
 
 TEST_F(solve_cli, BadUsageAndInputExitTwo) {
   const std::string demo = quote((models / "demo.json").string());
-  const std::vector<std::string> bad{"solve " + demo + " --time-limit -1",  "solve " + demo + " --time-limit soon",
-                                     "solve " + demo + " --search sideways", "solve " + demo + " --bound magic",
-                                     "solve " + demo + " --method nothing",  "solve " + demo + " --pick luck",
-                                     "solve - --stats", "solve " + quote((dir_ / "missing.json").string()), "solve"};
+  const std::vector<std::string> bad{"solve " + demo + " --time-limit -1",
+                                     "solve " + demo + " --time-limit soon",
+                                     "solve " + demo + " --search sideways",
+                                     "solve " + demo + " --bound magic",
+                                     "solve " + demo + " --method nothing",
+                                     "solve " + demo + " --pick luck",
+                                     "solve - --stats",
+                                     "solve " + quote((dir_ / "missing.json").string()),
+                                     "solve"};
   for (const std::string& args : bad) {
     SCOPED_TRACE(args);
     const run_result r = run(args);

@@ -191,6 +191,41 @@ class method_chooser {
   bool last_cached_ = false;
 };
 
+// --- counting DIMACS bytes -----------------------------------------------------------
+
+// Decimal characters of a DIMACS literal, its sign included: arithmetic, no
+// formatting (the bytes a writer would produce for it).
+[[nodiscard]] constexpr std::uint64_t dimacs_literal_width(std::int64_t v) noexcept {
+  std::uint64_t width = v < 0 ? 2 : 1;
+  std::uint64_t magnitude = v < 0 ? static_cast<std::uint64_t>(-(v + 1)) + 1 : static_cast<std::uint64_t>(v);
+  while (magnitude >= 10) {
+    magnitude /= 10;
+    ++width;
+  }
+  return width;
+}
+
+// The pipeline's counting sink with the DIMACS bytes: clauses, literals and
+// the bytes of the clause lines a DIMACS writer writes for them ("1 -2 0\n":
+// each literal and a space, then "0\n"). A soft clause counts as its clause
+// alone (the line of CNF; WCNF adds the weight). Exact at any size: nothing
+// is formatted, so statistics need no cut-off.
+class dimacs_counting_sink {
+ public:
+  void add_clause(std::span<const literal> clause) noexcept {
+    count_.add_clause(clause);
+    bytes_ += 2;
+    for (const literal l : clause) bytes_ += dimacs_literal_width(l.dimacs()) + 1;
+  }
+  void add_soft_clause(std::int64_t /*weight*/, std::span<const literal> clause) noexcept { add_clause(clause); }
+  [[nodiscard]] const counting_sink& counts() const noexcept { return count_; }
+  [[nodiscard]] std::uint64_t bytes() const noexcept { return bytes_; }
+
+ private:
+  counting_sink count_;
+  std::uint64_t bytes_ = 0;
+};
+
 // --- encoding --------------------------------------------------------------------
 
 // Forwards clauses, counting them; stops at the clause budget and at the
