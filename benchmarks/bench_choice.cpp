@@ -17,11 +17,7 @@
 //    against the encoder with the methods given, the same model built in
 //    process (default 10 000 x 50), into a counting sink (the cheapest sink,
 //    so the choice weighs most); clause and variable counts must agree.
-#include <sys/wait.h>
-#include <unistd.h>
-
 #include <algorithm>
-#include <chrono>
 #include <clausewright/clausewright.hpp>
 #include <cstdio>
 #include <cstdlib>
@@ -34,41 +30,14 @@
 #include <string>
 #include <vector>
 
+#include "child_process.hpp"
+
 namespace cw = clausewright;
+using clausewright_bench::median;
+using clausewright_bench::now;
+using clausewright_bench::run_command;
 
 namespace {
-
-double now() { return std::chrono::duration<double>(std::chrono::steady_clock::now().time_since_epoch()).count(); }
-
-struct run_result {
-  double seconds = 0;
-  int status = -1;
-};
-
-run_result run_command(const std::vector<std::string>& argv, const std::string& stdout_path = {}) {
-  std::fflush(stdout);
-  std::fflush(stderr);
-  const double start = now();
-  const pid_t pid = ::fork();
-  if (pid == 0) {
-    if (!stdout_path.empty() && std::freopen(stdout_path.c_str(), "w", stdout) == nullptr) std::_Exit(4);
-    std::vector<char*> args;
-    args.reserve(argv.size() + 1);
-    for (const auto& a : argv) args.push_back(const_cast<char*>(a.c_str()));
-    args.push_back(nullptr);
-    ::execv(args[0], args.data());
-    std::perror("execv");
-    std::_Exit(5);
-  }
-  int status = 0;
-  ::waitpid(pid, &status, 0);
-  return {now() - start, WIFEXITED(status) ? WEXITSTATUS(status) : -1};
-}
-
-double median(std::vector<double> v) {
-  std::sort(v.begin(), v.end());
-  return v.empty() ? 0 : v[v.size() / 2];
-}
 
 std::string read_file(const std::string& path) {
   std::ifstream in(path, std::ios::binary);

@@ -16,11 +16,6 @@
 // 3. End-to-end `clausewright encode` of a generated bin-packing model, against
 //    copying the same output bytes with cp in the same run: the throughput
 //    ratio encode/cp (target: at least 0.5), and the encoder's peak memory.
-#include <sys/resource.h>
-#include <sys/wait.h>
-#include <unistd.h>
-
-#include <chrono>
 #include <clausewright/clausewright.hpp>
 #include <cstdio>
 #include <cstdlib>
@@ -28,11 +23,15 @@
 #include <string>
 #include <vector>
 
+#include "child_process.hpp"
+
 namespace cw = clausewright;
+using clausewright_bench::child_result;
+using clausewright_bench::in_child;
+using clausewright_bench::now;
+using clausewright_bench::run_command;
 
 namespace {
-
-double now() { return std::chrono::duration<double>(std::chrono::steady_clock::now().time_since_epoch()).count(); }
 
 // Writes about `clauses` clauses: sequential counters over 10^4 inputs, k = 100.
 std::uint64_t write_counters(const std::string& path, std::uint64_t clauses) {
@@ -52,49 +51,6 @@ std::uint64_t write_counters(const std::string& path, std::uint64_t clauses) {
   writer.finish(pool.top());
   out.commit();
   return writer.bytes();
-}
-
-struct child_result {
-  double seconds = 0;
-  long max_rss_kib = 0;
-  int status = -1;
-};
-
-template <class Body>
-child_result in_child(Body body) {
-  std::fflush(stdout);  // or the child's stdio would write the parent's pending output again
-  std::fflush(stderr);
-  const double start = now();
-  const pid_t pid = ::fork();
-  if (pid == 0) {
-    int rc = 0;
-    try {
-      rc = body();
-    } catch (const std::exception& e) {
-      std::fprintf(stderr, "child failed: %s\n", e.what());
-      rc = 3;
-    }
-    std::_Exit(rc);
-  }
-  int status = 0;
-  rusage usage{};
-  ::wait4(pid, &status, 0, &usage);
-  return {now() - start, usage.ru_maxrss, WIFEXITED(status) ? WEXITSTATUS(status) : -1};
-}
-
-child_result run_command(const std::vector<std::string>& argv, const std::string& stdout_path = {}) {
-  return in_child([&] {
-    if (!stdout_path.empty()) {
-      if (std::freopen(stdout_path.c_str(), "w", stdout) == nullptr) return 4;
-    }
-    std::vector<char*> args;
-    args.reserve(argv.size() + 1);
-    for (const auto& a : argv) args.push_back(const_cast<char*>(a.c_str()));
-    args.push_back(nullptr);
-    ::execv(args[0], args.data());
-    std::perror("execv");
-    return 5;
-  });
 }
 
 }  // namespace

@@ -3,12 +3,16 @@
 // (an independent reader of the DIMACS Challenge format).
 #include <cadical.hpp>
 #include <clausewright/clausewright.hpp>
+#include <charconv>
+#include <chrono>
 #include <cstdio>
+#include <cstring>
 #include <filesystem>
 #include <fstream>
 #include <random>
 #include <gtest/gtest.h>
 #include <sstream>
+#include <thread>
 
 namespace cw = clausewright;
 using cw::lit;
@@ -270,6 +274,7 @@ namespace {
 class recording_output final : public cw::byte_output {
  public:
   void write(const char* data, std::size_t size) override {
+    if (delay.count() != 0) std::this_thread::sleep_for(delay);
     if (fail_after_ != 0 && bytes.size() + size > fail_after_) throw cw::error(cw::error_id::io, "disk full");
     bytes.append(data, size);
   }
@@ -280,6 +285,7 @@ class recording_output final : public cw::byte_output {
   }
   std::string bytes;
   std::size_t fail_after_ = 0;
+  std::chrono::microseconds delay{0};  // per write: a slow disk, so that blocks wait
 };
 }  // namespace
 
@@ -348,4 +354,151 @@ TEST(ThreadedOutput, DroppedWithoutFinishDoesNotHang) {
     out.write(text.data(), text.size());
   }
   EXPECT_LE(sink.bytes.size(), 10'000U);
+}
+
+// Decimal formatting: write_decimal against the standard library's
+// std::to_chars (an independent formatter), for every value up to 10^6 in
+// magnitude, around every power of ten and at the ends of the range; and the
+// two divisions by multiplication it relies on, for every value they meet.
+TEST(Decimal, WriteDecimalAgreesWithToChars) {
+  for (std::uint64_t v = 0; v < 10000; ++v) ASSERT_EQ((v * 10486) >> 20, v / 100) << v;
+  for (std::uint64_t v = 0; v < 100; ++v) ASSERT_EQ((v * 103) >> 10, v / 10) << v;
+  std::vector<std::int32_t> values;
+  for (std::int32_t v = -1'000'000; v <= 1'000'000; ++v) values.push_back(v);
+  std::int64_t power = 1;
+  for (int e = 0; e <= 9; ++e, power *= 10)
+    for (std::int64_t d = -2; d <= 2; ++d)
+      for (const std::int64_t sign : {1, -1}) values.push_back(static_cast<std::int32_t>(sign * (power + d)));
+  values.push_back(INT32_MAX);
+  values.push_back(INT32_MIN);
+  values.push_back(INT32_MIN + 1);
+  const unsigned seed = 1202;
+  std::mt19937 rng(seed);
+  for (int i = 0; i < 1'000'000; ++i) values.push_back(static_cast<std::int32_t>(rng()));
+  char ours[32];
+  char theirs[32];
+  for (const std::int32_t v : values) {
+    std::memset(ours, 'x', sizeof ours);
+    const char* end = cw::write_decimal(ours, v);
+    const auto r = std::to_chars(theirs, theirs + sizeof theirs, v);
+    ASSERT_EQ(std::string_view(ours, static_cast<std::size_t>(end - ours)),
+              std::string_view(theirs, static_cast<std::size_t>(r.ptr - theirs)))
+        << v << " (seed " << seed << ")";
+    ASSERT_LE(end - ours, 11);
+  }
+}
+
+// The DIMACS bytes are the format itself: "p cnf V C", then each clause as
+// its literals in decimal, one space after each, "0" and a newline. The
+// writer's output, through every kind of output (a plain one, threaded with
+// blocks lent to the writer, small and default blocks), must equal that text
+// built independently with snprintf from the same clauses, for literals of
+// every width and for clauses longer than a block.
+namespace {
+// A comment line between the clauses every so often, as the tool's
+// --comments writes them.
+constexpr std::size_t comment_every = 4999;
+
+std::string dimacs_by_snprintf(const cw::cnf_buffer& cnf, std::int32_t variables) {
+  std::string text = "p cnf " + std::to_string(variables) + " " + std::to_string(cnf.size()) + "\n";
+  char number[16];
+  for (std::size_t k = 0; k < cnf.size(); ++k) {
+    if (k % comment_every == comment_every - 1) text += "c before clause " + std::to_string(k) + "\n";
+    for (const cw::literal l : cnf[k]) {
+      std::snprintf(number, sizeof number, "%d ", l.dimacs());
+      text += number;
+    }
+    text += "0\n";
+  }
+  return text;
+}
+}  // namespace
+
+TEST(Dimacs, BytesEqualTheFormatWrittenIndependently) {
+  const unsigned seed = 20261203;
+  std::mt19937 rng(seed);
+  cw::cnf_buffer cnf;
+  std::int32_t top = 1;
+  std::vector<cw::literal> clause;
+  for (int k = 0; k < 20000; ++k) {
+    clause.clear();
+    const std::size_t length = k % 997 == 0 ? 3000 : rng() % 6;  // some longer than a small block
+    for (std::size_t i = 0; i < length; ++i) {
+      // Variables of 1 to 10 digits, either sign.
+      const auto digits = static_cast<int>(rng() % 10);
+      std::int64_t v = 1 + static_cast<std::int64_t>(rng() % 9);
+      for (int d = 0; d < digits; ++d) v = v * 10 + static_cast<std::int64_t>(rng() % 10);
+      v = std::min<std::int64_t>(v, cw::max_variable);
+      top = std::max(top, static_cast<std::int32_t>(v));
+      clause.push_back(cw::lit(static_cast<std::int32_t>(rng() % 2 == 0 ? v : -v)));
+    }
+    cnf.add_clause(std::span<const cw::literal>(clause));
+  }
+  // And a real encoding: the adder network of a weighted row, variables
+  // numbered from 99 999 990 on so that they cross to nine digits.
+  {
+    cw::variable_pool pool(99'999'990);
+    std::vector<cw::term> terms;
+    for (std::int32_t i = 1; i <= 40; ++i) terms.push_back({(i * 37) % 101 + 1, cw::lit(99'999'950 + i)});
+    cw::encoder enc(cnf, pool);
+    enc.linear(terms, cw::relation::le, 700, cw::method_id::adder);
+    top = std::max(top, pool.top());
+  }
+  const std::string expected = dimacs_by_snprintf(cnf, top);
+  const auto add_all = [&](cw::dimacs_writer& w) {
+    for (std::size_t k = 0; k < cnf.size(); ++k) {
+      if (k % comment_every == comment_every - 1) w.comment("before clause " + std::to_string(k));
+      w.add_clause(cnf[k]);
+    }
+  };
+  {
+    recording_output plain;
+    cw::dimacs_writer w(plain);
+    w.begin(top, cnf.size());
+    add_all(w);
+    w.finish(top);
+    EXPECT_TRUE(plain.bytes == expected) << "plain output, seed " << seed;
+    EXPECT_EQ(w.bytes(), expected.size());
+  }
+  // Blocks of 100 bytes are too small to lend (the writer's own buffer),
+  // 4096 lend (the long clauses go as text), 2^20 take every clause as
+  // numbers; a slow output makes the writing thread fall behind, so that
+  // blocks are formatted on both threads.
+  for (const bool slow : {false, true})
+    for (const std::size_t block : {std::size_t{100}, std::size_t{4096}, std::size_t{1} << 20}) {
+      recording_output sink;
+      if (slow) sink.delay = std::chrono::microseconds(block > 4096 ? 2000 : 20);
+      std::uint64_t bytes = 0;
+      {
+        cw::threaded_output out(sink, block, 4);
+        cw::dimacs_writer w(out);
+        w.begin(top, cnf.size());
+        add_all(w);
+        w.finish(top);
+        out.finish();
+        bytes = w.bytes();
+      }
+      const std::string what = "blocks of " + std::to_string(block) + (slow ? ", slow" : "") + ", seed " +
+                               std::to_string(seed);
+      EXPECT_EQ(sink.bytes.size(), expected.size()) << what;
+      EXPECT_TRUE(sink.bytes == expected) << what;
+      EXPECT_EQ(bytes, expected.size()) << what;
+    }
+  // The patched header through a threaded output: the same clauses after a
+  // reserved line, which names the counts once the writer finishes.
+  {
+    recording_output sink;
+    {
+      cw::threaded_output out(sink, 4096, 2);
+      cw::dimacs_writer w(out);
+      w.begin_patched();
+      add_all(w);
+      w.finish(top);
+      out.finish();
+    }
+    const std::size_t header_end = expected.find('\n');
+    std::string header = expected.substr(0, header_end);
+    header.resize(cw::dimacs_writer::reserved_header_width, ' ');
+    EXPECT_TRUE(sink.bytes == header + expected.substr(header_end)) << "patched header, seed " << seed;
+  }
 }

@@ -9,6 +9,7 @@
 #include <unistd.h>
 
 #include <algorithm>
+#include <bit>
 #include <cerrno>
 #include <charconv>
 #include <condition_variable>
@@ -22,6 +23,7 @@
 #include <mutex>
 #include <ostream>
 #include <random>
+#include <span>
 #include <string>
 #include <string_view>
 #include <thread>
@@ -31,6 +33,14 @@
 #include "error.hpp"
 
 namespace clausewright {
+
+class byte_output;
+
+// Turns the contents of a lent block into the bytes written to `out` (on the
+// thread that writes), with `scratch` as its working memory; returns how
+// many bytes it wrote. The DIMACS writer's clauses travel so, as numbers,
+// and become text on the writing thread.
+using block_transform = std::uint64_t (*)(std::span<const char> block, byte_output& out, std::vector<char>& scratch);
 
 // Where bytes go. patch() overwrites bytes already written, for outputs that
 // can seek back (files); the DIMACS header is written last that way.
@@ -42,6 +52,24 @@ class byte_output {
   virtual void patch(std::uint64_t /*offset*/, const char* /*data*/, std::size_t /*size*/) {
     throw error(error_id::usage, "this output cannot be patched");
   }
+  // An output that keeps blocks of its own may lend one to the writer that
+  // fills it, which saves copying every byte once more: lend() gives a block
+  // to fill (empty: this output lends none), and hand_over(n, transform)
+  // passes on its first n bytes as write() would (transform null), or what
+  // `transform` makes of them; the block is the output's again then.
+  // Nothing else is called while a block is lent.
+  [[nodiscard]] virtual std::span<char> lend() { return {}; }
+  virtual void hand_over(std::size_t /*used*/, block_transform /*transform*/) {}
+  // Waits until everything handed over is written (an output that writes on
+  // a thread of its own); rethrows the error of a failed write.
+  virtual void finish() {}
+  // Bytes written by the transforms of the blocks handed over so far (exact
+  // after finish()).
+  [[nodiscard]] virtual std::uint64_t transformed_bytes() { return 0; }
+  // How far the writing thread is behind: blocks handed over and not yet
+  // written, and how many blocks there are in all (0 and 0: no such thread).
+  [[nodiscard]] virtual std::size_t backlog() { return 0; }
+  [[nodiscard]] virtual std::size_t blocks() const { return 0; }
 
  protected:
   byte_output() = default;
@@ -309,13 +337,33 @@ class threaded_output final : public byte_output {
       if (fill_ == block_size_) submit();
     }
   }
+  // The writer formats straight into the next block of the ring (or fills
+  // it with what a transform turns into bytes on the writing thread).
+  [[nodiscard]] std::span<char> lend() override {
+    if (holding_ && fill_ != 0) submit();
+    if (!holding_) acquire();
+    return {block(submitted_ % count_), block_size_};
+  }
+  void hand_over(std::size_t used, block_transform transform) override {
+    fill_ = std::min(used, block_size_);
+    if (fill_ != 0) submit(transform);
+  }
+  [[nodiscard]] std::uint64_t transformed_bytes() override {
+    const std::lock_guard lock(mutex_);
+    return transformed_;
+  }
+  [[nodiscard]] std::size_t backlog() override {
+    const std::lock_guard lock(mutex_);
+    return submitted_ - written_;
+  }
+  [[nodiscard]] std::size_t blocks() const override { return count_; }
   [[nodiscard]] bool can_patch() const override { return out_.can_patch(); }
   void patch(std::uint64_t offset, const char* data, std::size_t size) override {
     finish();
     out_.patch(offset, data, size);
   }
   // Everything handed over so far is written when this returns.
-  void finish() {
+  void finish() override {
     if (holding_ && fill_ != 0) submit();
     std::unique_lock lock(mutex_);
     changed_.wait(lock, [this] { return written_ == submitted_; });
@@ -333,10 +381,11 @@ class threaded_output final : public byte_output {
     holding_ = true;
     fill_ = 0;
   }
-  void submit() {
+  void submit(block_transform transform = nullptr) {
     {
       const std::lock_guard lock(mutex_);
       sizes_[submitted_ % count_] = fill_;
+      transforms_[submitted_ % count_] = transform;
       ++submitted_;
     }
     holding_ = false;
@@ -350,17 +399,23 @@ class threaded_output final : public byte_output {
       if (stopping_) return;
       const std::size_t index = written_ % count_;
       const std::size_t size = sizes_[index];
+      const block_transform transform = transforms_[index];
       const bool skip = failure_ != nullptr;
       lock.unlock();
       std::exception_ptr failed;
+      std::uint64_t transformed = 0;
       if (!skip) {
         try {
-          out_.write(block(index), size);
+          if (transform != nullptr)
+            transformed = transform(std::span<const char>(block(index), size), out_, scratch_);
+          else
+            out_.write(block(index), size);
         } catch (...) {
           failed = std::current_exception();
         }
       }
       lock.lock();
+      transformed_ += transformed;
       if (failed && !failure_) failure_ = failed;
       ++written_;
       changed_.notify_all();
@@ -372,6 +427,9 @@ class threaded_output final : public byte_output {
   std::size_t count_;
   std::unique_ptr<char[]> storage_;  // count_ blocks, used in turn
   std::vector<std::size_t> sizes_;   // bytes in each submitted block
+  std::vector<block_transform> transforms_ = std::vector<block_transform>(count_, nullptr);  // per block
+  std::vector<char> scratch_;      // the transforms' working memory (writing thread)
+  std::uint64_t transformed_ = 0;  // bytes the transforms wrote
   // Blocks handed over and blocks written; the producer fills block
   // submitted_ % count_ while it holds it.
   std::size_t submitted_ = 0;
@@ -390,91 +448,142 @@ inline constexpr char digit_pairs[] =
     "40414243444546474849505152535455565758596061626364656667686970717273747576777879"
     "8081828384858687888990919293949596979899";
 
-// Decimal digits of u (1 for 0).
-[[nodiscard]] constexpr unsigned decimal_digits(std::uint32_t u) noexcept {
-  unsigned n = 1;
-  for (;;) {
-    if (u < 10) return n;
-    if (u < 100) return n + 1;
-    if (u < 1000) return n + 2;
-    if (u < 10000) return n + 3;
-    u /= 10000;
-    n += 4;
-  }
+namespace detail {
+
+// The eight decimal digits of u < 10^8 as the byte values 0..9, the most
+// significant digit in the lowest byte (little-endian: the order they are
+// printed in). No loop and no table: the halves u / 10^4 and u % 10^4 go
+// into the two 32-bit lanes, each lane is split into two 16-bit lanes of two
+// digits and each of those into two bytes, all lanes at once. The divisions
+// are multiplications: (v * 10486) >> 20 = v / 100 for v < 10^4 and
+// (v * 103) >> 10 = v / 10 for v < 100 (checked for every v in
+// tests/test_core.cpp); no lane's product reaches the next lane.
+[[nodiscard]] constexpr std::uint64_t eight_digits(std::uint32_t u) noexcept {
+  std::uint64_t x = (u / 10000) | (static_cast<std::uint64_t>(u % 10000) << 32U);
+  const std::uint64_t hundreds = ((x * 10486U) >> 20U) & 0x0000007F0000007FULL;
+  x = hundreds | ((x - hundreds * 100U) << 16U);
+  const std::uint64_t tens = ((x * 103U) >> 10U) & 0x000F000F000F000FULL;
+  return tens | ((x - tens * 10U) << 8U);
 }
 
-// Writes `value` in decimal at p (at most 11 bytes) and returns the end:
-// digit pairs from a table, written back to front into their final place.
+inline constexpr std::uint64_t ascii_zeros = 0x3030303030303030ULL;
+
+}  // namespace detail
+
+// Writes `value` in decimal at p and returns the end of its digits. It may
+// store bytes past that end: the caller must have room for 11 bytes at p
+// (the longest value, "-2147483648") whatever the value.
 inline char* write_decimal(char* p, std::int32_t value) noexcept {
   auto u = static_cast<std::uint32_t>(value);
   if (value < 0) {
     *p++ = '-';
     u = 0U - u;
   }
-  char* const end = p + decimal_digits(u);
-  char* q = end;
-  while (u >= 100) {
-    q -= 2;
-    std::memcpy(q, digit_pairs + static_cast<std::size_t>(u % 100) * 2, 2);
-    u /= 100;
+  if constexpr (std::endian::native == std::endian::little) {
+    if (u < 100000000U) {
+      if (u == 0) {
+        *p = '0';
+        return p + 1;
+      }
+      // Leading zero digits are the low zero bytes; shifting them out leaves
+      // the digits at the start of the eight bytes stored.
+      const std::uint64_t digits = detail::eight_digits(u);
+      const auto leading = static_cast<unsigned>(std::countr_zero(digits)) / 8U;
+      const std::uint64_t text = (digits + detail::ascii_zeros) >> (8U * leading);
+      std::memcpy(p, &text, 8);
+      return p + 8 - leading;
+    }
+    const std::uint32_t head = u / 100000000U;  // 1..42
+    if (head >= 10) {
+      std::memcpy(p, digit_pairs + static_cast<std::size_t>(head) * 2, 2);
+      p += 2;
+    } else {
+      *p++ = static_cast<char>('0' + head);
+    }
+    const std::uint64_t text = detail::eight_digits(u % 100000000U) + detail::ascii_zeros;
+    std::memcpy(p, &text, 8);
+    return p + 8;
+  } else {
+    // Digit pairs from a table, written back to front into their final place.
+    unsigned n = 1;
+    for (std::uint32_t rest = u; rest >= 10; rest /= 10) ++n;
+    char* const end = p + n;
+    char* q = end;
+    while (u >= 100) {
+      q -= 2;
+      std::memcpy(q, digit_pairs + static_cast<std::size_t>(u % 100) * 2, 2);
+      u /= 100;
+    }
+    if (u >= 10)
+      std::memcpy(q - 2, digit_pairs + static_cast<std::size_t>(u) * 2, 2);
+    else
+      q[-1] = static_cast<char>('0' + u);
+    return end;
   }
-  if (u >= 10)
-    std::memcpy(q - 2, digit_pairs + static_cast<std::size_t>(u) * 2, 2);
-  else
-    q[-1] = static_cast<char>('0' + u);
-  return end;
 }
 
-// Buffered text writer: collects bytes and flushes in blocks of `capacity`.
+// Buffered text writer: collects bytes and hands them to the output in
+// blocks: blocks the output lends (threaded_output), so that the bytes are
+// formatted where they are written from, or else a buffer of its own of
+// `capacity` bytes.
 class text_writer {
  public:
   static constexpr std::size_t default_capacity = std::size_t{1} << 20;
+  // A lent block smaller than this is given back and the writer's own
+  // buffer used: callers reserve up to a few dozen bytes at once.
+  static constexpr std::size_t smallest_lent_block = 256;
 
-  explicit text_writer(byte_output& out, std::size_t capacity = default_capacity) : out_(out), buffer_(capacity + 64) {}
+  explicit text_writer(byte_output& out, std::size_t capacity = default_capacity)
+      : out_(out), capacity_(capacity + 64) {}
   text_writer(const text_writer&) = delete;
   text_writer& operator=(const text_writer&) = delete;
   ~text_writer() = default;  // does not flush: an unflushed writer means failure
 
   void put(char c) {
     reserve(1);
-    buffer_[used_++] = c;
+    data_[used_++] = c;
   }
   void put(std::string_view s) {
-    if (s.size() > buffer_.size() - used_) {
-      flush();
-      if (s.size() > buffer_.size()) {
-        out_.write(s.data(), s.size());
-        written_ += s.size();
-        return;
-      }
+    while (!s.empty()) {
+      if (used_ == size_) refill();
+      const std::size_t n = std::min(s.size(), size_ - used_);
+      std::memcpy(data_ + used_, s.data(), n);
+      used_ += n;
+      s.remove_prefix(n);
     }
-    std::memcpy(buffer_.data() + used_, s.data(), s.size());
-    used_ += s.size();
   }
   template <class Int>
   void put_int(Int value) {
     reserve(24);
-    const auto result = std::to_chars(buffer_.data() + used_, buffer_.data() + buffer_.size(), value);
-    used_ = static_cast<std::size_t>(result.ptr - buffer_.data());
+    const auto result = std::to_chars(data_ + used_, data_ + size_, value);
+    used_ = static_cast<std::size_t>(result.ptr - data_);
   }
   // Room for `n` more bytes without a bounds check per byte: callers that
-  // write a whole clause reserve once.
+  // write a whole clause reserve once. The room may stay below n when n is
+  // more than a whole block (callers then write piece by piece).
   void reserve(std::size_t n) {
-    if (buffer_.size() - used_ < n) flush();
+    if (size_ - used_ < n) refill();
   }
   // Unchecked writes after reserve().
-  void put_unchecked(char c) noexcept { buffer_[used_++] = c; }
+  void put_unchecked(char c) noexcept { data_[used_++] = c; }
   void put_int_unchecked(std::int32_t value) noexcept { finish_unchecked(write_decimal(cursor(), value)); }
   // Raw writing after reserve(): the next free byte, and where the caller's
   // unchecked writes ended. A hot loop keeps the pointer in a register
   // instead of updating the writer (char stores alias every member).
-  [[nodiscard]] char* cursor() noexcept { return buffer_.data() + used_; }
-  void finish_unchecked(const char* end) noexcept { used_ = static_cast<std::size_t>(end - buffer_.data()); }
-  [[nodiscard]] std::size_t room() const noexcept { return buffer_.size() - used_; }
+  [[nodiscard]] char* cursor() noexcept { return data_ + used_; }
+  void finish_unchecked(const char* end) noexcept { used_ = static_cast<std::size_t>(end - data_); }
+  [[nodiscard]] std::size_t room() const noexcept { return size_ - used_; }
 
+  // Hands everything written so far to the output.
   void flush() {
-    if (used_ == 0) return;
-    out_.write(buffer_.data(), used_);
+    if (lent_) {
+      lent_ = false;
+      data_ = nullptr;
+      size_ = 0;
+      out_.hand_over(used_, nullptr);
+    } else if (used_ != 0) {
+      out_.write(data_, used_);
+    }
     written_ += used_;
     used_ = 0;
   }
@@ -483,9 +592,29 @@ class text_writer {
   [[nodiscard]] byte_output& output() noexcept { return out_; }
 
  private:
+  // Flushes and takes the next block: a lent one, else the own buffer.
+  void refill() {
+    flush();
+    const std::span<char> block = out_.lend();
+    if (block.size() >= smallest_lent_block) {
+      data_ = block.data();
+      size_ = block.size();
+      lent_ = true;
+      return;
+    }
+    if (!block.empty()) out_.hand_over(0, nullptr);
+    if (own_.empty()) own_.resize(capacity_);
+    data_ = own_.data();
+    size_ = own_.size();
+  }
+
   byte_output& out_;
-  std::vector<char> buffer_;
+  std::size_t capacity_;
+  std::vector<char> own_;  // allocated when the output lends no blocks
+  char* data_ = nullptr;   // the block being filled: lent or own_
+  std::size_t size_ = 0;
   std::size_t used_ = 0;
+  bool lent_ = false;
   std::uint64_t written_ = 0;
 };
 

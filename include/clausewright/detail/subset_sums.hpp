@@ -25,16 +25,21 @@ class subset_sums {
     if (weight == 0 || weight > cap_ || full_) return;
     const std::uint64_t shift_words = weight >> 6U;
     const unsigned shift_bits = static_cast<unsigned>(weight & 63U);
-    // words[i] |= words shifted up by `weight`, from the top down (in place).
-    for (std::size_t i = words_.size(); i-- > shift_words;) {
-      const std::size_t from = i - shift_words;
-      std::uint64_t moved = words_[from] << shift_bits;
-      if (shift_bits != 0 && from > 0) moved |= words_[from - 1] >> (64U - shift_bits);
-      words_[i] |= moved;
+    // words[i] |= words shifted up by `weight`, from the top down (in place),
+    // up to the word of the largest sum now reachable: above it all is zero.
+    const std::uint64_t reach = std::min(cap_, largest_ + weight);
+    const std::size_t top = static_cast<std::size_t>(reach >> 6U);
+    if (shift_bits == 0) {
+      for (std::size_t i = top + 1; i-- > shift_words;) words_[i] |= words_[i - shift_words];
+    } else {
+      for (std::size_t i = top; i > shift_words; --i)
+        words_[i] |= (words_[i - shift_words] << shift_bits) | (words_[i - shift_words - 1] >> (64U - shift_bits));
+      words_[shift_words] |= words_[0] << shift_bits;
     }
+    largest_ = reach;
     trim();
     // Once every sum up to the cap is reachable nothing changes any more.
-    if ((++added_ & 15U) == 0) full_ = count(0, cap_) == cap_ + 1;
+    if ((++added_ & 15U) == 0) full_ = largest_ == cap_ && count(0, cap_) == cap_ + 1;
   }
   void add_all(std::span<const std::int64_t> weights) {
     for (const std::int64_t w : weights) add(static_cast<std::uint64_t>(w));
@@ -68,6 +73,7 @@ class subset_sums {
   }
   std::uint64_t cap_;
   std::vector<std::uint64_t> words_;
+  std::uint64_t largest_ = 0;  // the largest sum reachable (at most the cap)
   std::uint64_t added_ = 0;
   bool full_ = false;
 };

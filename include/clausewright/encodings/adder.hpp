@@ -25,7 +25,6 @@
 
 #include <algorithm>
 #include <cstdint>
-#include <deque>
 #include <optional>
 #include <span>
 #include <vector>
@@ -104,7 +103,15 @@ binary_sum build_adder_network(Sink& out, variable_pool& pool, std::span<const l
                                const error_position& where = {}) {
   if (literals.size() != coefficients.size())
     throw error(error_id::usage, "the adder network needs one coefficient per literal", where);
-  std::vector<std::deque<literal>> buckets;
+  // Each bucket is a queue: a vector and the index of its first literal
+  // still waiting (the literals before it went into adders). A bucket holds
+  // at most its starting literals and one sum per adder of its bit.
+  struct bucket {
+    std::vector<literal> literals;
+    std::size_t head = 0;
+    [[nodiscard]] std::size_t waiting() const noexcept { return literals.size() - head; }
+  };
+  std::vector<bucket> buckets;
   for (std::size_t i = 0; i < literals.size(); ++i) {
     if (coefficients[i] <= 0)
       throw error(error_id::usage, "the adder network takes normalised constraints (positive coefficients)", where);
@@ -112,30 +119,33 @@ binary_sum build_adder_network(Sink& out, variable_pool& pool, std::span<const l
     for (std::size_t bit = 0; a != 0; ++bit, a >>= 1U) {
       if ((a & 1U) == 0) continue;
       if (buckets.size() <= bit) buckets.resize(bit + 1);
-      buckets[bit].push_back(literals[i]);
+      buckets[bit].literals.push_back(literals[i]);
     }
   }
   binary_sum result;
   result.built = which;
   for (std::size_t bit = 0; bit < buckets.size(); ++bit) {
-    // Note: buckets may grow (a carry into a new top bit) while we go.
-    while (buckets[bit].size() >= 2) {
-      auto& q = buckets[bit];
+    // A carry out of the top bit makes a new bucket (before the references
+    // are taken: the resize moves the buckets).
+    if (buckets[bit].waiting() >= 2 && buckets.size() <= bit + 1) buckets.resize(bit + 2);
+    bucket& q = buckets[bit];
+    while (q.waiting() >= 2) {
+      const literal* first = q.literals.data() + q.head;
       adder_outputs o{};
-      if (q.size() >= 3) {
-        const literal a = q[0], b = q[1], c = q[2];
-        q.erase(q.begin(), q.begin() + 3);
+      if (q.waiting() >= 3) {
+        const literal a = first[0], b = first[1], c = first[2];
+        q.head += 3;
         o = full_adder(out, pool, a, b, c, which);
       } else {
-        const literal a = q[0], b = q[1];
-        q.erase(q.begin(), q.begin() + 2);
+        const literal a = first[0], b = first[1];
+        q.head += 2;
         o = half_adder(out, pool, a, b, which);
       }
-      buckets[bit].push_back(o.sum);
-      if (buckets.size() <= bit + 1) buckets.resize(bit + 2);
-      buckets[bit + 1].push_back(o.carry);
+      q.literals.push_back(o.sum);
+      buckets[bit + 1].literals.push_back(o.carry);
     }
-    result.bits.push_back(buckets[bit].empty() ? literal() : buckets[bit].front());
+    result.bits.push_back(q.waiting() == 0 ? literal() : q.literals[q.head]);
+    q = bucket{};  // done with this bit: its memory goes now
   }
   return result;
 }

@@ -242,6 +242,30 @@ constexpr void add_comparators(encoding_size& s, const comparator_count& c, side
   }
 }
 
+// The size of a network encoding of `c` as encode_with_counter writes it:
+// the empty clause when the bound cannot hold, nothing when it always holds,
+// else the comparators `count` gives (nullopt: no closed form, as when
+// constant padding removes comparators) on the sides built, and one unit per
+// side asserted.
+using comparator_counter = std::optional<comparator_count> (*)(const normalized_constraint& c,
+                                                               const cardinality_sides& need);
+[[nodiscard]] inline std::optional<encoding_size> network_size(const normalized_constraint& c,
+                                                               const encode_options& options,
+                                                               comparator_counter count) {
+  const cardinality_sides need = needed_sides(c);
+  encoding_size s;
+  if (need.impossible) {
+    s.clauses = 1;  // the empty clause
+    return s;
+  }
+  if (!need.at_most && !need.at_least) return s;
+  const std::optional<comparator_count> comparators = count(c, need);
+  if (!comparators) return std::nullopt;
+  add_comparators(s, *comparators, sides_for(c.rel, options));
+  add_clauses(s, (need.at_most ? 1 : 0) + (need.at_least ? 1 : 0), 1);
+  return s;
+}
+
 }  // namespace detail
 
 // The method table's entry (methods.hpp) and what the pipeline knows of its size.
@@ -260,27 +284,20 @@ struct cardinality_network_encoding {
   }
   [[nodiscard]] static std::optional<encoding_size> predict(const normalized_constraint& c,
                                                             const encode_options& options) {
-    const cardinality_sides need = needed_sides(c);
-    encoding_size s;
-    if (need.impossible) {
-      s.clauses = 1;  // the empty clause
-      return s;
-    }
-    if (!need.at_most && !need.at_least) return s;
-    const sides which = sides_for(c.rel, options);
+    return detail::network_size(c, options, comparators);
+  }
+  // Blocks of m sorted, then merged pairwise keeping the m largest.
+  [[nodiscard]] static std::optional<detail::comparator_count> comparators(const normalized_constraint& c,
+                                                                           const cardinality_sides& need) {
     const auto n = static_cast<std::uint64_t>(c.size());
     const auto k = static_cast<std::uint64_t>(c.bound);
     const std::uint64_t m = std::bit_ceil(need.at_most ? k + 1 : k);
     if (n % m != 0) return std::nullopt;  // padding removes comparators
     const std::uint64_t blocks = n / m;
-    detail::comparator_count total;
     const auto sort = detail::sort_comparators(m);
     const auto merge = detail::merge_comparators(2 * m, m);
-    total.full = blocks * sort.full + (blocks - 1) * merge.full;
-    total.half = blocks * sort.half + (blocks - 1) * merge.half;
-    detail::add_comparators(s, total, which);
-    detail::add_clauses(s, (need.at_most ? 1 : 0) + (need.at_least ? 1 : 0), 1);
-    return s;
+    return detail::comparator_count{blocks * sort.full + (blocks - 1) * merge.full,
+                                    blocks * sort.half + (blocks - 1) * merge.half};
   }
 };
 
@@ -301,19 +318,14 @@ struct sorting_network_encoding {
   }
   [[nodiscard]] static std::optional<encoding_size> predict(const normalized_constraint& c,
                                                             const encode_options& options) {
-    const cardinality_sides need = needed_sides(c);
-    encoding_size s;
-    if (need.impossible) {
-      s.clauses = 1;  // the empty clause
-      return s;
-    }
-    if (!need.at_most && !need.at_least) return s;
-    const sides which = sides_for(c.rel, options);
+    return detail::network_size(c, options, comparators);
+  }
+  // One sort of all the inputs.
+  [[nodiscard]] static std::optional<detail::comparator_count> comparators(const normalized_constraint& c,
+                                                                           const cardinality_sides& /*need*/) {
     const auto n = static_cast<std::uint64_t>(c.size());
     if (!std::has_single_bit(n)) return std::nullopt;  // padding removes comparators
-    detail::add_comparators(s, detail::sort_comparators(n), which);
-    detail::add_clauses(s, (need.at_most ? 1 : 0) + (need.at_least ? 1 : 0), 1);
-    return s;
+    return detail::sort_comparators(n);
   }
 };
 
