@@ -21,12 +21,12 @@
 #include <clausewright/lp_bound.hpp>
 #include <clausewright/optimize.hpp>
 
-#include "../benchmarks/optimize_instances.hpp"
+#include "../benchmarks/families.hpp"
 
 namespace {
 
 namespace cw = clausewright;
-namespace oi = optimize_instances;
+namespace oi = clausewright::bench::optimize;
 
 constexpr std::uint64_t seed = 20261202;
 
