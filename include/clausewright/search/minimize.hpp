@@ -282,7 +282,7 @@ optimize_result minimize_run(search_run<Solver>& run, objective_bound<Solver>& b
       std::optional<solver_clock::time_point> until;
       std::optional<std::int64_t> conflicts;
       // With the relaxation's bound at hand the cores have less to add.
-      const double share = relaxed ? options.core_share / 3 : options.core_share;
+      const double share = relaxed ? options.core_share / 10 : options.core_share;
       if (options.time_limit && run.deadline())
         until = run.start() + std::chrono::duration_cast<solver_clock::duration>(*options.time_limit * share);
       else
