@@ -419,6 +419,15 @@ class objective_bound {
     if (!backend_) backend_ = make_backend(method_);
     if (method_ != bound_method::bdd || settings_.method == bound_method::bdd) return backend_->at_most(k);
     try {
+      // A diagram whose nodes are known to pass the budget (bdd.hpp's exact
+      // count on sampled levels) is not started: building it up to the
+      // budget took seconds on a 200-item objective, and its clauses stay.
+      std::vector<term> terms;
+      terms.reserve(goal_.size());
+      for (std::size_t i = 0; i < goal_.size(); ++i) terms.push_back({goal_.coefficients[i], goal_.literals[i]});
+      if (bdd_clause_lower_bound(normalize(terms, relation::le, k), {}, settings_.bdd_node_budget) >
+          settings_.bdd_node_budget)
+        throw error(error_id::over_budget, "the objective's BDD would pass its node budget");
       return backend_->at_most(k);
     } catch (const error& e) {
       if (e.id() != error_id::over_budget) throw;
