@@ -95,16 +95,26 @@ bool suggest_start(search_run<Solver>& run, const normalized_objective& goal,
       assumptions.push_back((*greedy)[v] ? x : ~x);
     }
     // Checking a full assignment can take search when the rows' encodings
-    // propagate weakly: a twentieth of the time limit and a number of
+    // propagate weakly: twice a fortieth of the time limit and a number of
     // conflicts; then the greedy values are the phases of the next call.
-    if (o.time_limit && run.deadline())
-      run.limit_phase(run.start() + std::chrono::duration_cast<solver_clock::duration>(*o.time_limit * 0.05),
-                      std::int64_t{20000});
-    else
-      run.limit_phase(std::nullopt, std::int64_t{20000});
-    const solve_result answer = run.solve(assumptions);
-    run.limit_phase(std::nullopt);
-    return answer == solve_result::satisfiable;
+    // One-sided encodings leave their auxiliary variables free where the
+    // inputs do not force them: an upper side (for <=) is satisfied with
+    // them false, a lower side (a ">=" row over negated inputs) with them
+    // true; the first try suggests false, the second true.
+    for (const bool auxiliary : {false, true}) {
+      run.suggest(*greedy, auxiliary);
+      if (o.time_limit && run.deadline())
+        run.limit_phase(solver_clock::now() + std::chrono::duration_cast<solver_clock::duration>(*o.time_limit * 0.025),
+                        std::int64_t{10000});
+      else
+        run.limit_phase(std::nullopt, std::int64_t{10000});
+      const solve_result answer = run.solve(assumptions);
+      run.limit_phase(std::nullopt);
+      if (answer == solve_result::satisfiable) return true;
+      if (answer == solve_result::unsatisfiable || run.over()) break;  // other constraints reject it
+    }
+    run.suggest(*greedy);
+    return false;
   }
   if (!o.solution_phases) return false;
   if (relaxed && !relaxed->values.empty()) {

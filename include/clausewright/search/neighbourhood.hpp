@@ -1,8 +1,9 @@
 // clausewright: upper bounds early — a constructive start and the
 // large-neighbourhood improvement.
 //
-// The start: when every linear row is a packing row (<=, positive
-// coefficients on positive literals: a knapsack, several knapsacks), the
+// The start: when every linear row is a packing row (<= with positive
+// coefficients on positive literals, or >= with negative ones: a knapsack,
+// several knapsacks), the
 // greedy by ratio fills the rows with the variables whose truth saves the
 // most objective per unit of capacity (Dantzig's order for the knapsack);
 // otherwise, with a relaxation solved, its solution rounded. Either only
@@ -60,13 +61,18 @@ namespace clausewright::detail {
   if (rows.empty() || variables <= 0) return std::nullopt;
   const auto n = static_cast<std::size_t>(variables);
   // Per variable, its use of each row's capacity, summed relative to the capacity.
+  // A ">=" row counts with its signs turned ("-w x >= -C" is "w x <= C", as
+  // OPB writes capacities).
+  auto sign = [](const linear_row& r) { return r.rel == relation::ge ? std::int64_t{-1} : std::int64_t{1}; };
   std::vector<double> load(n + 1, 0.0);
   for (const linear_row& r : rows) {
-    if (r.rel != relation::le || r.bound < 0) return std::nullopt;
+    const std::int64_t capacity = sign(r) * r.bound;
+    if (r.rel == relation::eq || capacity < 0) return std::nullopt;
     for (const term& t : r.terms) {
-      if (t.coefficient < 0 || t.lit.negative() || static_cast<std::size_t>(t.lit.var()) > n) return std::nullopt;
+      const std::int64_t a = sign(r) * t.coefficient;
+      if (a < 0 || t.lit.negative() || static_cast<std::size_t>(t.lit.var()) > n) return std::nullopt;
       load[static_cast<std::size_t>(t.lit.var())] +=
-          static_cast<double>(t.coefficient) / static_cast<double>(std::max<std::int64_t>(r.bound, 1));
+          static_cast<double>(a) / static_cast<double>(std::max<std::int64_t>(capacity, 1));
     }
   }
   // What setting each variable true saves: its coefficient on ~x.
@@ -86,9 +92,10 @@ namespace clausewright::detail {
   // Rows by variable, to check the capacity left.
   std::vector<std::vector<std::pair<std::size_t, std::int64_t>>> uses(n + 1);
   for (std::size_t k = 0; k < rows.size(); ++k)
-    for (const term& t : rows[k].terms) uses[static_cast<std::size_t>(t.lit.var())].emplace_back(k, t.coefficient);
+    for (const term& t : rows[k].terms)
+      uses[static_cast<std::size_t>(t.lit.var())].emplace_back(k, sign(rows[k]) * t.coefficient);
   std::vector<std::int64_t> left(rows.size());
-  for (std::size_t k = 0; k < rows.size(); ++k) left[k] = rows[k].bound;
+  for (std::size_t k = 0; k < rows.size(); ++k) left[k] = sign(rows[k]) * rows[k].bound;
   std::vector<bool> values(n + 1, false);
   for (const std::size_t v : order) {
     const bool fits =
