@@ -100,8 +100,14 @@ bool suggest_start(search_run<Solver>& run, const normalized_objective& goal,
     // One-sided encodings leave their auxiliary variables free where the
     // inputs do not force them: an upper side (for <=) is satisfied with
     // them false, a lower side (a ">=" row over negated inputs) with them
-    // true; the first try suggests false, the second true.
-    for (const bool auxiliary : {false, true}) {
+    // true. Which side the rows took follows from their normal form (a
+    // try with the wrong phases also moves the solver's decision order, so
+    // the likelier side goes first).
+    std::size_t lower_sides = 0;
+    for (const linear_row& r : o.rows)
+      if (normalize(r.terms, r.rel, r.bound).rel == relation::ge) ++lower_sides;
+    const bool first = 2 * lower_sides > o.rows.size();
+    for (const bool auxiliary : {first, !first}) {
       run.suggest(*greedy, auxiliary);
       if (o.time_limit && run.deadline())
         run.limit_phase(solver_clock::now() + std::chrono::duration_cast<solver_clock::duration>(*o.time_limit * 0.025),

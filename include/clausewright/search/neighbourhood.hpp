@@ -1,9 +1,9 @@
 // clausewright: upper bounds early — a constructive start and the
 // large-neighbourhood improvement.
 //
-// The start: when every linear row is a packing row (<= with positive
-// coefficients on positive literals, or >= with negative ones: a knapsack,
-// several knapsacks), the
+// The start: when every linear row is a packing row (over positive
+// literals, <= with positive coefficients or >= with negative ones: a
+// knapsack, several knapsacks), the
 // greedy by ratio fills the rows with the variables whose truth saves the
 // most objective per unit of capacity (Dantzig's order for the knapsack);
 // otherwise, with a relaxation solved, its solution rounded. Either only
@@ -39,6 +39,7 @@
 #include <optional>
 #include <random>
 #include <span>
+#include <utility>
 #include <vector>
 
 #include "../constraint.hpp"
@@ -60,21 +61,36 @@ namespace clausewright::detail {
                                                                      std::int32_t variables) {
   if (rows.empty() || variables <= 0) return std::nullopt;
   const auto n = static_cast<std::size_t>(variables);
-  // Per variable, its use of each row's capacity, summed relative to the capacity.
-  // A ">=" row counts with its signs turned ("-w x >= -C" is "w x <= C", as
-  // OPB writes capacities).
-  auto sign = [](const linear_row& r) { return r.rel == relation::ge ? std::int64_t{-1} : std::int64_t{1}; };
-  std::vector<double> load(n + 1, 0.0);
-  for (const linear_row& r : rows) {
-    const std::int64_t capacity = sign(r) * r.bound;
-    if (r.rel == relation::eq || capacity < 0) return std::nullopt;
+  // Each row over positive literals (a ~x = a - a x, the constant to the
+  // bound), a ">=" row with its signs turned ("-w x >= -C" is "w x <= C", as
+  // OPB writes capacities): a packing row has only non-negative
+  // coefficients and capacity.
+  struct packing_row {
+    std::vector<std::pair<std::size_t, std::int64_t>> uses;  // variable, weight
+    std::int64_t capacity = 0;
+  };
+  std::vector<packing_row> packing(rows.size());
+  for (std::size_t k = 0; k < rows.size(); ++k) {
+    const linear_row& r = rows[k];
+    if (r.rel == relation::eq) return std::nullopt;
+    const std::int64_t sign = r.rel == relation::ge ? -1 : 1;
+    std::int64_t capacity = r.bound;
     for (const term& t : r.terms) {
-      const std::int64_t a = sign(r) * t.coefficient;
-      if (a < 0 || t.lit.negative() || static_cast<std::size_t>(t.lit.var()) > n) return std::nullopt;
-      load[static_cast<std::size_t>(t.lit.var())] +=
-          static_cast<double>(a) / static_cast<double>(std::max<std::int64_t>(capacity, 1));
+      if (static_cast<std::size_t>(t.lit.var()) > n) return std::nullopt;
+      if (t.lit.negative()) capacity -= t.coefficient;
+      packing[k].uses.emplace_back(static_cast<std::size_t>(t.lit.var()),
+                                   sign * (t.lit.negative() ? -t.coefficient : t.coefficient));
     }
+    packing[k].capacity = sign * capacity;
+    if (packing[k].capacity < 0) return std::nullopt;
+    for (const auto& u : packing[k].uses)
+      if (u.second < 0) return std::nullopt;
   }
+  // Per variable, its use of each row's capacity, summed relative to the capacity.
+  std::vector<double> load(n + 1, 0.0);
+  for (const packing_row& r : packing)
+    for (const auto& [v, a] : r.uses)
+      load[v] += static_cast<double>(a) / static_cast<double>(std::max<std::int64_t>(r.capacity, 1));
   // What setting each variable true saves: its coefficient on ~x.
   std::vector<double> saving(n + 1, 0.0);
   for (std::size_t i = 0; i < goal.size(); ++i) {
@@ -91,11 +107,10 @@ namespace clausewright::detail {
   });
   // Rows by variable, to check the capacity left.
   std::vector<std::vector<std::pair<std::size_t, std::int64_t>>> uses(n + 1);
-  for (std::size_t k = 0; k < rows.size(); ++k)
-    for (const term& t : rows[k].terms)
-      uses[static_cast<std::size_t>(t.lit.var())].emplace_back(k, sign(rows[k]) * t.coefficient);
-  std::vector<std::int64_t> left(rows.size());
-  for (std::size_t k = 0; k < rows.size(); ++k) left[k] = sign(rows[k]) * rows[k].bound;
+  for (std::size_t k = 0; k < packing.size(); ++k)
+    for (const auto& [v, a] : packing[k].uses) uses[v].emplace_back(k, a);
+  std::vector<std::int64_t> left(packing.size());
+  for (std::size_t k = 0; k < packing.size(); ++k) left[k] = packing[k].capacity;
   std::vector<bool> values(n + 1, false);
   for (const std::size_t v : order) {
     const bool fits =
