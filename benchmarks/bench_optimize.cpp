@@ -1,5 +1,5 @@
 // The optimiser on instances of our own with independently computed optima
-// (benchmarks/optimize_instances.hpp): one row per instance with the best
+// (benchmarks/families.hpp, namespace optimize): one row per instance with the best
 // value found, the time to within 1 % of the optimum, the time to the proof,
 // and the lower bound when the search ended. Values are the minimised ones
 // (for the knapsacks: the value left behind); the gap is measured on the
@@ -23,12 +23,12 @@
 #include <clausewright/lp_bound.hpp>
 #include <clausewright/optimize.hpp>
 
-#include "optimize_instances.hpp"
+#include "families.hpp"
 
 namespace {
 
 namespace cw = clausewright;
-namespace oi = optimize_instances;
+namespace oi = clausewright::bench::optimize;
 
 struct settings {
   double time_limit = 10;

@@ -51,11 +51,13 @@ cmake -S tests/consumers/find_package -B build/consumer-find -DCMAKE_PREFIX_PATH
 cmake --build build/consumer-find -j "$jobs"
 build/consumer-find/consumer
 build/consumer-find/consumer_solve
+build/consumer-find/consumer_lp
 cmake -S tests/consumers/subdirectory -B build/consumer-sub -DCLAUSEWRIGHT_SOURCE_DIR="$root" \
   -DCMAKE_CXX_FLAGS="-Wall -Wextra -Wpedantic -Werror" >/dev/null
 cmake --build build/consumer-sub -j "$jobs"
 build/consumer-sub/consumer
 build/consumer-sub/consumer_solve
+build/consumer-sub/consumer_lp
 
 fuzz_seconds=${CLAUSEWRIGHT_FUZZ_SECONDS:-20}
 if [[ -x tests/fuzz/run.sh && $fuzz_seconds != 0 ]]; then

@@ -10,7 +10,8 @@
 // The relaxation (common practice in integer programming): every variable in
 // [0, 1], ~x as 1 - x, the rows as given, the objective minimised by CLP's
 // dual simplex. Its minimum bounds every solution from below; the optimiser
-// rounds it up for the integral objective.
+// rounds it up for the integral objective, and fixes variables by the
+// reduced costs of the optimal basis.
 #pragma once
 
 #include <cstdint>
@@ -79,6 +80,10 @@ namespace clausewright {
   const double* x = lp.primalColumnSolution();
   answer.values.assign(static_cast<std::size_t>(columns) + 1, 0.0);
   for (int v = 0; v < columns; ++v) answer.values[static_cast<std::size_t>(v) + 1] = x[v];
+  // The reduced costs of the optimal basis, for reduced-cost fixing.
+  const double* d = lp.dualColumnSolution();
+  answer.reduced_costs.assign(static_cast<std::size_t>(columns) + 1, 0.0);
+  for (int v = 0; v < columns; ++v) answer.reduced_costs[static_cast<std::size_t>(v) + 1] = d[v];
   return answer;
 }
 

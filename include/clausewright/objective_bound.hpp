@@ -41,6 +41,7 @@
 #include <span>
 #include <string>
 #include <string_view>
+#include <utility>
 #include <vector>
 
 #include "constraint.hpp"
@@ -127,7 +128,27 @@ struct bound_settings {
   std::uint64_t bdd_node_budget = default_bdd_node_budget;
 };
 
+// Thrown out of a bound's construction when its interrupt check (see
+// objective_bound::set_interrupt) says stop; the optimiser catches it.
+struct bound_interrupted {};
+
 namespace detail {
+
+// Counts what the bounds add and, every 1024 clauses, asks whether to stop:
+// a large bound (a BDD of a million nodes) can take seconds to build.
+class watched_counter {
+ public:
+  void add_clause(std::span<const literal> clause) {
+    counts_.add_clause(clause);
+    if (interrupted_ && (counts_.clauses() & 1023U) == 0 && interrupted_()) throw bound_interrupted{};
+  }
+  [[nodiscard]] encoding_size size(std::uint64_t variables) const noexcept { return counts_.size(variables); }
+  void set_interrupt(std::function<bool()> check) { interrupted_ = std::move(check); }
+
+ private:
+  counting_sink counts_;
+  std::function<bool()> interrupted_;
+};
 
 // A literal that is true, made on first use (a fresh variable and its unit).
 template <class Sink>
@@ -332,7 +353,7 @@ class reencode_bound final : public bound_backend {
 template <class Sink>
 class objective_bound {
   static_assert(check_clause_sink<Sink>());
-  using counted_sink = tee_sink<Sink, counting_sink>;
+  using counted_sink = tee_sink<Sink, detail::watched_counter>;
 
  public:
   objective_bound(Sink& sink, variable_pool& pool, const objective& goal, bound_settings settings = {})
@@ -368,6 +389,11 @@ class objective_bound {
     cache_.emplace(scaled, l);
     return l;
   }
+  // While set, building a bound calls `check` every 1024 clauses and throws
+  // bound_interrupted when it answers true. The clauses already added only
+  // define the bound's own auxiliary variables; the interrupted structure
+  // must not be asked for bounds again (the optimiser ends its search).
+  void set_interrupt(std::function<bool()> check) { counts_.set_interrupt(std::move(check)); }
   // Asserts objective <= value for good (a unit clause).
   void require_at_most(std::int64_t value) { emit(out_, at_most(value)); }
 
@@ -393,6 +419,15 @@ class objective_bound {
     if (!backend_) backend_ = make_backend(method_);
     if (method_ != bound_method::bdd || settings_.method == bound_method::bdd) return backend_->at_most(k);
     try {
+      // A diagram whose nodes are known to pass the budget (bdd.hpp's exact
+      // count on sampled levels) is not started: building it up to the
+      // budget took seconds on a 200-item objective, and its clauses stay.
+      std::vector<term> terms;
+      terms.reserve(goal_.size());
+      for (std::size_t i = 0; i < goal_.size(); ++i) terms.push_back({goal_.coefficients[i], goal_.literals[i]});
+      if (bdd_clause_lower_bound(normalize(terms, relation::le, k), {}, settings_.bdd_node_budget) >
+          settings_.bdd_node_budget)
+        throw error(error_id::over_budget, "the objective's BDD would pass its node budget");
       return backend_->at_most(k);
     } catch (const error& e) {
       if (e.id() != error_id::over_budget) throw;
@@ -425,7 +460,7 @@ class objective_bound {
     return nullptr;
   }
 
-  counting_sink counts_;
+  detail::watched_counter counts_;
   counted_sink out_;
   variable_pool& pool_;
   normalized_objective goal_;

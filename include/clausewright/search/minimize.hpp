@@ -15,9 +15,20 @@
 // best solution; a time limit, a conflict limit or the stop flag ends it with
 // the best solution ("satisfiable") and the proved lower bound.
 //
+// With the relaxation's reduced costs, every bound "objective <= t" asked
+// by the linear and the core-boosted search comes with the variables that
+// reduced-cost fixing settles below t + 1 (search/reduced_costs.hpp), and
+// the neighbourhoods fix them too.
+//
 // "optimal" is only claimed on a proof: an unsatisfiable answer for a bound
 // below the best solution that no other assumption took part in, or a lower
 // bound (from cores, the relaxation or such answers) equal to the best value.
+// The fixings are implied by the bound they come with, so they leave such an
+// answer a proof.
+//
+// The time limit and the stop flag are also checked while the objective's
+// bound is built (objective_bound::set_interrupt): a large bound ends the
+// search with the best solution as promptly as a solver call does.
 //
 // Part of optimize.hpp: include optimize.hpp, not this.
 #pragma once
@@ -33,6 +44,7 @@
 #include "core_guided.hpp"
 #include "neighbourhood.hpp"
 #include "options.hpp"
+#include "reduced_costs.hpp"
 #include "run.hpp"
 
 namespace clausewright {
@@ -83,16 +95,32 @@ bool suggest_start(search_run<Solver>& run, const normalized_objective& goal,
       assumptions.push_back((*greedy)[v] ? x : ~x);
     }
     // Checking a full assignment can take search when the rows' encodings
-    // propagate weakly: a twentieth of the time limit and a number of
+    // propagate weakly: twice a fortieth of the time limit and a number of
     // conflicts; then the greedy values are the phases of the next call.
-    if (o.time_limit && run.deadline())
-      run.limit_phase(run.start() + std::chrono::duration_cast<solver_clock::duration>(*o.time_limit * 0.05),
-                      std::int64_t{20000});
-    else
-      run.limit_phase(std::nullopt, std::int64_t{20000});
-    const solve_result answer = run.solve(assumptions);
-    run.limit_phase(std::nullopt);
-    return answer == solve_result::satisfiable;
+    // One-sided encodings leave their auxiliary variables free where the
+    // inputs do not force them: an upper side (for <=) is satisfied with
+    // them false, a lower side (a ">=" row over negated inputs) with them
+    // true. Which side the rows took follows from their normal form (a
+    // try with the wrong phases also moves the solver's decision order, so
+    // the likelier side goes first).
+    std::size_t lower_sides = 0;
+    for (const linear_row& r : o.rows)
+      if (normalize(r.terms, r.rel, r.bound).rel == relation::ge) ++lower_sides;
+    const bool first = 2 * lower_sides > o.rows.size();
+    for (const bool auxiliary : {first, !first}) {
+      run.suggest(*greedy, auxiliary);
+      if (o.time_limit && run.deadline())
+        run.limit_phase(solver_clock::now() + std::chrono::duration_cast<solver_clock::duration>(*o.time_limit * 0.025),
+                        std::int64_t{10000});
+      else
+        run.limit_phase(std::nullopt, std::int64_t{10000});
+      const solve_result answer = run.solve(assumptions);
+      run.limit_phase(std::nullopt);
+      if (answer == solve_result::satisfiable) return true;
+      if (answer == solve_result::unsatisfiable || run.over()) break;  // other constraints reject it
+    }
+    run.suggest(*greedy);
+    return false;
   }
   if (!o.solution_phases) return false;
   if (relaxed && !relaxed->values.empty()) {
@@ -117,19 +145,54 @@ optimize_result satisfy(Solver& solver, variable_pool& pool, const optimize_opti
       run.result().solutions = 1;
       return run.finish(optimize_status::satisfiable);
     }
-    case solve_result::unsatisfiable: return run.finish(optimize_status::unsatisfiable);
-    case solve_result::unknown: break;
+    case solve_result::unsatisfiable:
+      return run.finish(optimize_status::unsatisfiable);
+    case solve_result::unknown:
+      break;
   }
   return run.finish(optimize_status::unknown);
 }
 
-// Minimises the objective behind `bound` (which must write into `solver`).
+namespace detail {
+
+// The variables reduced-cost fixing settles for every solution of scaled sum
+// at most t, as clauses guarded by `bound_literal` (that bound's literal), or
+// as unit clauses when the bound is asserted (no literal); each fixing once
+// per literal, units once.
 template <class Solver>
-optimize_result minimize(Solver& solver, variable_pool& pool, objective_bound<Solver>& bound,
-                         const optimize_options& options = {}) {
-  static_assert(incremental_solver<Solver>, "clausewright: minimize needs a solver sink (solver_sink, cadical_solver)");
+class fixings_in_solver {
+ public:
+  fixings_in_solver(Solver& solver, const std::optional<relaxation_answer>& relaxed) : solver_(solver) {
+    if (relaxed) fixing_ = reduced_cost_fixing(*relaxed);
+  }
+  void add(std::int64_t t, std::optional<literal> bound_literal) {
+    const std::span<const reduced_cost_fixing::fixing> implied = fixing_.implied_by(t);
+    if (!bound_literal) {
+      for (std::size_t k = units_; k < implied.size(); ++k) emit(solver_, implied[k].lit);
+      units_ = std::max(units_, implied.size());
+      return;
+    }
+    std::size_t k = units_;
+    if (guard_ && *guard_ == *bound_literal) k = std::max(k, guarded_);
+    for (; k < implied.size(); ++k) emit(solver_, ~*bound_literal, implied[k].lit);
+    guard_ = bound_literal;
+    guarded_ = implied.size();
+  }
+  [[nodiscard]] const reduced_cost_fixing& fixing() const noexcept { return fixing_; }
+
+ private:
+  Solver& solver_;
+  reduced_cost_fixing fixing_;
+  std::size_t units_ = 0;         // fixings asserted as units (a prefix of the list)
+  std::optional<literal> guard_;  // the bound literal of the last guarded fixings
+  std::size_t guarded_ = 0;       // how many of them
+};
+
+template <class Solver>
+optimize_result minimize_run(search_run<Solver>& run, objective_bound<Solver>& bound) {
+  Solver& solver = run.solver();
+  const optimize_options& options = run.options();
   const normalized_objective& goal = bound.normalized();
-  detail::search_run<Solver> run(solver, pool, options);
   optimize_result& result = run.result();
   result.lower_bound = goal.lowest();
   std::int64_t lower_sum = 0;  // proved: no solution has a smaller scaled sum
@@ -154,6 +217,13 @@ optimize_result minimize(Solver& solver, variable_pool& pool, objective_bound<So
   };
 
   const std::optional<relaxation_answer> relaxed = detail::relaxation_bound(run, goal, lower_sum);
+  fixings_in_solver<Solver> fixings(solver, relaxed);
+  // Below the best: the bound (asserted or assumed) and its fixings.
+  auto improve_on = [&](std::int64_t best) {
+    const std::optional<literal> assumption = tighten(goal.value_of_sum(best - 1));
+    fixings.add(best - 1, assumption);
+    return assumption;
+  };
   const bool boosted = options.search == search_strategy::core_boosted;
   const bool started =
       (boosted || options.search == search_strategy::core_guided) && detail::suggest_start(run, goal, relaxed);
@@ -161,9 +231,12 @@ optimize_result minimize(Solver& solver, variable_pool& pool, objective_bound<So
   // The first solution, with no bound.
   if (!started) {
     switch (run.solve()) {
-      case solve_result::unsatisfiable: return done(optimize_status::unsatisfiable);
-      case solve_result::unknown: return done(optimize_status::unknown);
-      case solve_result::satisfiable: break;
+      case solve_result::unsatisfiable:
+        return done(optimize_status::unsatisfiable);
+      case solve_result::unknown:
+        return done(optimize_status::unknown);
+      case solve_result::satisfiable:
+        break;
     }
   }
   std::int64_t best_sum = detail::take_solution(run, solver, goal, options);
@@ -171,11 +244,14 @@ optimize_result minimize(Solver& solver, variable_pool& pool, objective_bound<So
 
   if (options.search == search_strategy::linear) {
     while (best_sum > lower_sum) {
-      const std::optional<literal> assumption = tighten(goal.value_of_sum(best_sum) - 1);
+      const std::optional<literal> assumption = improve_on(best_sum);
       switch (solve_with(assumption)) {
-        case solve_result::unsatisfiable: return done(optimize_status::optimal);
-        case solve_result::unknown: return done(stopped_status());
-        case solve_result::satisfiable: break;
+        case solve_result::unsatisfiable:
+          return done(optimize_status::optimal);
+        case solve_result::unknown:
+          return done(stopped_status());
+        case solve_result::satisfiable:
+          break;
       }
       const std::int64_t sum = detail::take_solution(run, solver, goal, options);
       CLAUSEWRIGHT_ASSERT(sum < best_sum, "a solution under the bound must improve on the best");
@@ -222,7 +298,7 @@ optimize_result minimize(Solver& solver, variable_pool& pool, objective_bound<So
       std::optional<solver_clock::time_point> until;
       std::optional<std::int64_t> conflicts;
       // With the relaxation's bound at hand the cores have less to add.
-      const double share = relaxed ? options.core_share / 3 : options.core_share;
+      const double share = relaxed ? options.core_share / 10 : options.core_share;
       if (options.time_limit && run.deadline())
         until = run.start() + std::chrono::duration_cast<solver_clock::duration>(*options.time_limit * share);
       else
@@ -240,7 +316,7 @@ optimize_result minimize(Solver& solver, variable_pool& pool, objective_bound<So
   }
 
   // Improvement and proof attempts, alternating.
-  detail::neighbourhood_search<Solver> neighbourhoods(run, goal);
+  detail::neighbourhood_search<Solver> neighbourhoods(run, goal, &fixings.fixing());
   std::int64_t effort = 2000;  // conflicts of the next proof attempt, doubled after each
   while (best_sum > lower_sum && !run.over()) {
     // While the neighbourhoods improve, they have the time: a proof attempt
@@ -250,11 +326,15 @@ optimize_result minimize(Solver& solver, variable_pool& pool, objective_bound<So
     if (best_sum <= lower_sum || run.over()) break;
     if (best_sum < before) continue;
     // Solution-improving: below the best.
-    const std::optional<literal> assumption = tighten(goal.value_of_sum(best_sum - 1));
+    const std::optional<literal> assumption = improve_on(best_sum);
     switch (solve_with(assumption, effort)) {
-      case solve_result::unsatisfiable: return done(optimize_status::optimal);
-      case solve_result::satisfiable: best_sum = detail::offer_solution(run, solver, goal, best_sum); break;
-      case solve_result::unknown: break;
+      case solve_result::unsatisfiable:
+        return done(optimize_status::optimal);
+      case solve_result::satisfiable:
+        best_sum = detail::offer_solution(run, solver, goal, best_sum);
+        break;
+      case solve_result::unknown:
+        break;
     }
     if (best_sum <= lower_sum || run.over()) break;
     // A probe at the lower bound: meets it, or raises it by one step.
@@ -265,13 +345,47 @@ optimize_result minimize(Solver& solver, variable_pool& pool, objective_bound<So
           ++lower_sum;
           run.raise_lower_bound(goal.value_of_sum(lower_sum), bound_source::refutation);
           break;
-        case solve_result::satisfiable: best_sum = detail::offer_solution(run, solver, goal, best_sum); break;
-        case solve_result::unknown: break;
+        case solve_result::satisfiable:
+          best_sum = detail::offer_solution(run, solver, goal, best_sum);
+          break;
+        case solve_result::unknown:
+          break;
       }
     }
     effort = std::min<std::int64_t>(effort * 2, INT32_MAX / 2);
   }
   return done(stopped_status());
+}
+
+}  // namespace detail
+
+// Minimises the objective behind `bound` (which must write into `solver`).
+template <class Solver>
+optimize_result minimize(Solver& solver, variable_pool& pool, objective_bound<Solver>& bound,
+                         const optimize_options& options = {}) {
+  static_assert(incremental_solver<Solver>, "clausewright: minimize needs a solver sink (solver_sink, cadical_solver)");
+  detail::search_run<Solver> run(solver, pool, options);
+  // The limits hold while a bound is built, too.
+  struct interrupt_guard {
+    objective_bound<Solver>& bound;
+    interrupt_guard(objective_bound<Solver>& b, detail::search_run<Solver>& r) : bound(b) {
+      bound.set_interrupt([&r] { return r.over(); });
+    }
+    interrupt_guard(const interrupt_guard&) = delete;
+    interrupt_guard& operator=(const interrupt_guard&) = delete;
+    ~interrupt_guard() { bound.set_interrupt({}); }
+  } guard(bound, run);
+  try {
+    return detail::minimize_run(run, bound);
+  } catch (const bound_interrupted&) {
+    // Stopped while a bound was built: the best solution and the lower bound so far.
+    optimize_result& result = run.result();
+    result.bound = bound.method();
+    result.bound_size = bound.size();
+    if (!result.objective) return run.finish(optimize_status::unknown);
+    return run.finish(*result.objective <= result.lower_bound ? optimize_status::optimal
+                                                              : optimize_status::satisfiable);
+  }
 }
 
 // Minimises `goal`, bounding it with options.bound.

@@ -1,8 +1,9 @@
 // clausewright: upper bounds early — a constructive start and the
 // large-neighbourhood improvement.
 //
-// The start: when every linear row is a packing row (<=, positive
-// coefficients on positive literals: a knapsack, several knapsacks), the
+// The start: when every linear row is a packing row (over positive
+// literals, <= with positive coefficients or >= with negative ones: a
+// knapsack, several knapsacks), the
 // greedy by ratio fills the rows with the variables whose truth saves the
 // most objective per unit of capacity (Dantzig's order for the knapsack);
 // otherwise, with a relaxation solved, its solution rounded. Either only
@@ -20,6 +21,15 @@
 // own bound may be large or propagate weakly) and retired after the call.
 // Its answers prove nothing about the whole model: it only finds solutions.
 //
+// With the relaxation's reduced costs (search/reduced_costs.hpp), every
+// other neighbourhood is the core problem (Balas & Zemel 1980, "An algorithm
+// for large zero-one knapsack problems", Operations Research; Puchinger,
+// Raidl, Pferschy 2010, "The multidimensional knapsack problem: structure and
+// algorithms", INFORMS Journal on Computing): the variables whose reduced
+// cost is smallest in magnitude, those the relaxation leaves most open, are
+// freed, the rest fixed to the best solution. Variables that reduced-cost
+// fixing settles for every better solution are fixed to that value.
+//
 // Part of optimize.hpp: include optimize.hpp, not this.
 #pragma once
 
@@ -29,6 +39,7 @@
 #include <optional>
 #include <random>
 #include <span>
+#include <utility>
 #include <vector>
 
 #include "../constraint.hpp"
@@ -38,6 +49,7 @@
 #include "../select.hpp"
 #include "../sink.hpp"
 #include "options.hpp"
+#include "reduced_costs.hpp"
 #include "run.hpp"
 
 namespace clausewright::detail {
@@ -49,23 +61,43 @@ namespace clausewright::detail {
                                                                      std::int32_t variables) {
   if (rows.empty() || variables <= 0) return std::nullopt;
   const auto n = static_cast<std::size_t>(variables);
+  // Each row over positive literals (a ~x = a - a x, the constant to the
+  // bound), a ">=" row with its signs turned ("-w x >= -C" is "w x <= C", as
+  // OPB writes capacities): a packing row has only non-negative
+  // coefficients and capacity.
+  struct packing_row {
+    std::vector<std::pair<std::size_t, std::int64_t>> uses;  // variable, weight
+    std::int64_t capacity = 0;
+  };
+  std::vector<packing_row> packing(rows.size());
+  for (std::size_t k = 0; k < rows.size(); ++k) {
+    const linear_row& r = rows[k];
+    if (r.rel == relation::eq) return std::nullopt;
+    const std::int64_t sign = r.rel == relation::ge ? -1 : 1;
+    std::int64_t capacity = r.bound;
+    for (const term& t : r.terms) {
+      if (static_cast<std::size_t>(t.lit.var()) > n) return std::nullopt;
+      if (t.lit.negative()) capacity -= t.coefficient;
+      packing[k].uses.emplace_back(static_cast<std::size_t>(t.lit.var()),
+                                   sign * (t.lit.negative() ? -t.coefficient : t.coefficient));
+    }
+    packing[k].capacity = sign * capacity;
+    if (packing[k].capacity < 0) return std::nullopt;
+    for (const auto& u : packing[k].uses)
+      if (u.second < 0) return std::nullopt;
+  }
   // Per variable, its use of each row's capacity, summed relative to the capacity.
   std::vector<double> load(n + 1, 0.0);
-  for (const linear_row& r : rows) {
-    if (r.rel != relation::le || r.bound < 0) return std::nullopt;
-    for (const term& t : r.terms) {
-      if (t.coefficient < 0 || t.lit.negative() || static_cast<std::size_t>(t.lit.var()) > n) return std::nullopt;
-      load[static_cast<std::size_t>(t.lit.var())] +=
-          static_cast<double>(t.coefficient) / static_cast<double>(std::max<std::int64_t>(r.bound, 1));
-    }
-  }
+  for (const packing_row& r : packing)
+    for (const auto& [v, a] : r.uses)
+      load[v] += static_cast<double>(a) / static_cast<double>(std::max<std::int64_t>(r.capacity, 1));
   // What setting each variable true saves: its coefficient on ~x.
   std::vector<double> saving(n + 1, 0.0);
   for (std::size_t i = 0; i < goal.size(); ++i) {
     const literal l = goal.literals[i];
     if (static_cast<std::size_t>(l.var()) > n) continue;
-    saving[static_cast<std::size_t>(l.var())] += l.negative() ? static_cast<double>(goal.coefficients[i])
-                                                              : -static_cast<double>(goal.coefficients[i]);
+    saving[static_cast<std::size_t>(l.var())] +=
+        l.negative() ? static_cast<double>(goal.coefficients[i]) : -static_cast<double>(goal.coefficients[i]);
   }
   std::vector<std::size_t> order;
   for (std::size_t v = 1; v <= n; ++v)
@@ -75,13 +107,14 @@ namespace clausewright::detail {
   });
   // Rows by variable, to check the capacity left.
   std::vector<std::vector<std::pair<std::size_t, std::int64_t>>> uses(n + 1);
-  for (std::size_t k = 0; k < rows.size(); ++k)
-    for (const term& t : rows[k].terms) uses[static_cast<std::size_t>(t.lit.var())].emplace_back(k, t.coefficient);
-  std::vector<std::int64_t> left(rows.size());
-  for (std::size_t k = 0; k < rows.size(); ++k) left[k] = rows[k].bound;
+  for (std::size_t k = 0; k < packing.size(); ++k)
+    for (const auto& [v, a] : packing[k].uses) uses[v].emplace_back(k, a);
+  std::vector<std::int64_t> left(packing.size());
+  for (std::size_t k = 0; k < packing.size(); ++k) left[k] = packing[k].capacity;
   std::vector<bool> values(n + 1, false);
   for (const std::size_t v : order) {
-    const bool fits = std::all_of(uses[v].begin(), uses[v].end(), [&](const auto& u) { return u.second <= left[u.first]; });
+    const bool fits =
+        std::all_of(uses[v].begin(), uses[v].end(), [&](const auto& u) { return u.second <= left[u.first]; });
     if (!fits) continue;
     for (const auto& [k, a] : uses[v]) left[k] -= a;
     values[v] = true;
@@ -92,10 +125,23 @@ namespace clausewright::detail {
 template <class Solver>
 class neighbourhood_search {
  public:
-  neighbourhood_search(search_run<Solver>& run, const normalized_objective& goal)
-      : run_(run), goal_(goal), settings_(run.options().neighbourhood),
-        random_(run.options().seed), share_(settings_.free_share) {
+  neighbourhood_search(search_run<Solver>& run, const normalized_objective& goal,
+                       const reduced_cost_fixing* fixing = nullptr)
+      : run_(run),
+        goal_(goal),
+        settings_(run.options().neighbourhood),
+        random_(run.options().seed),
+        share_(settings_.free_share),
+        fixing_(fixing) {
     const std::int32_t n = run.recorded();
+    if (fixing != nullptr && !fixing->empty()) {
+      // The recorded variables by the magnitude of their reduced cost, smallest first.
+      const std::vector<double>& d = fixing->magnitudes();
+      for (std::int32_t v = 1; v <= n && static_cast<std::size_t>(v) < d.size(); ++v) open_.push_back(v);
+      std::stable_sort(open_.begin(), open_.end(), [&](std::int32_t a, std::int32_t b) {
+        return d[static_cast<std::size_t>(a)] < d[static_cast<std::size_t>(b)];
+      });
+    }
     for (const linear_row& r : run.options().rows) {
       std::vector<std::int32_t> vars;
       for (const term& t : r.terms)
@@ -116,15 +162,21 @@ class neighbourhood_search {
     std::vector<char> free(static_cast<std::size_t>(n) + 1, 0);
     std::vector<literal> assumptions;
     std::vector<term> free_terms;
+    // The values every better solution has (reduced-cost fixing): 1 true, -1 false.
+    std::vector<signed char> settled(static_cast<std::size_t>(n) + 1, 0);
+    if (fixing_ != nullptr)
+      for (const reduced_cost_fixing::fixing& f : fixing_->implied_by(best_sum - 1))
+        if (f.lit.var() <= n) settled[static_cast<std::size_t>(f.lit.var())] = f.lit.negative() ? -1 : 1;
+    auto value = [&](std::size_t v) { return settled[v] != 0 ? settled[v] > 0 : static_cast<bool>(incumbent[v]); };
     for (std::uint32_t k = 0; k < settings_.per_round && best_sum > 0 && !run_.stopped(); ++k) {
-      choose(free, n);
+      choose(free, n, settled);
       free_terms.clear();
       std::int64_t fixed = 0;
       for (std::size_t i = 0; i < goal_.size(); ++i) {
         const literal l = goal_.literals[i];
         const auto v = static_cast<std::size_t>(l.var());
         if (l.var() <= n && free[v] == 0) {
-          const bool truth = incumbent[v];
+          const bool truth = value(v);
           if (l.negative() ? !truth : truth) fixed += goal_.coefficients[i];
         } else {
           free_terms.push_back({goal_.coefficients[i], l});
@@ -146,7 +198,7 @@ class neighbourhood_search {
       for (std::int32_t v = 1; v <= n; ++v) {
         if (free[static_cast<std::size_t>(v)] != 0) continue;
         const literal x(v);
-        assumptions.push_back(incumbent[static_cast<std::size_t>(v)] ? x : ~x);
+        assumptions.push_back(value(static_cast<std::size_t>(v)) ? x : ~x);
       }
       const solve_result answer = run_.solve(assumptions, settings_.conflicts);
       if (answer == solve_result::satisfiable) best_sum = offer_solution(run_, solver, goal_, best_sum);
@@ -157,10 +209,23 @@ class neighbourhood_search {
   }
 
  private:
-  void choose(std::vector<char>& free, std::int32_t n) {
+  // Frees a neighbourhood; settled variables stay fixed.
+  void choose(std::vector<char>& free, std::int32_t n, const std::vector<signed char>& settled) {
     std::fill(free.begin(), free.end(), 0);
     const auto want = std::max<std::int64_t>(2, static_cast<std::int64_t>(share_ * n));
     std::int64_t count = 0;
+    if (!open_.empty() && (++chosen_ & 1U) != 0) {
+      // The core problem: a random `want` of the 2 * want most open variables.
+      std::vector<std::int32_t> candidates;
+      for (const std::int32_t v : open_) {
+        if (static_cast<std::int64_t>(candidates.size()) >= 2 * want) break;
+        if (settled[static_cast<std::size_t>(v)] == 0) candidates.push_back(v);
+      }
+      std::shuffle(candidates.begin(), candidates.end(), random_);
+      for (std::size_t j = 0; j < candidates.size() && static_cast<std::int64_t>(j) < want; ++j)
+        free[static_cast<std::size_t>(candidates[j])] = 1;
+      return;
+    }
     if (!rows_.empty()) {
       std::uniform_int_distribution<std::size_t> pick(0, rows_.size() - 1);
       // A row longer than the neighbourhood contributes a random stretch.
@@ -193,6 +258,9 @@ class neighbourhood_search {
   std::mt19937_64 random_;
   double share_;
   std::vector<std::vector<std::int32_t>> rows_;  // the recorded variables of each row
+  const reduced_cost_fixing* fixing_ = nullptr;
+  std::vector<std::int32_t> open_;  // recorded variables by |reduced cost|, smallest first
+  std::uint64_t chosen_ = 0;        // neighbourhoods chosen
 };
 
 }  // namespace clausewright::detail

@@ -134,6 +134,10 @@ struct relaxation_problem {
 struct relaxation_answer {
   double value = 0;            // the relaxation's minimum (a lower bound on every integral solution)
   std::vector<double> values;  // x(v) at the minimum, index 0 unused (may be empty)
+  // The reduced cost of x(v) at the minimum, index 0 unused (may be empty:
+  // no reduced-cost fixing then). Must come from an optimal basis: the
+  // optimiser fixes variables by them (search/reduced_costs.hpp).
+  std::vector<double> reduced_costs;
 };
 
 // An LP engine: the minimum of the relaxation, nothing when it has none (it

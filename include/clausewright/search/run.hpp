@@ -76,8 +76,8 @@ class search_run {
     if constexpr (requires { solver_.statistics().conflicts; })
       result_.conflicts += solver_.statistics().conflicts - before;
     if (options_.on_progress)
-      options_.on_progress(search_progress{seconds(), result_.objective, result_.lower_bound, result_.solves,
-                                           result_.conflicts});
+      options_.on_progress(
+          search_progress{seconds(), result_.objective, result_.lower_bound, result_.solves, result_.conflicts});
     return answer;
   }
   solve_result solve(literal assumption, std::optional<std::int64_t> conflicts = {}) {
@@ -104,7 +104,8 @@ class search_run {
     phase_deadline_ = until && (!deadline_ || *until < *deadline_) ? until : deadline_;
     solver_.set_deadline(phase_deadline_);
     phase_conflicts_.reset();
-    if (conflicts) phase_conflicts_ = result_.conflicts + static_cast<std::uint64_t>(std::max<std::int64_t>(*conflicts, 0));
+    if (conflicts)
+      phase_conflicts_ = result_.conflicts + static_cast<std::uint64_t>(std::max<std::int64_t>(*conflicts, 0));
   }
   [[nodiscard]] std::optional<solver_clock::time_point> deadline() const noexcept { return deadline_; }
   [[nodiscard]] solver_clock::time_point start() const noexcept { return start_; }
@@ -145,19 +146,19 @@ class search_run {
   // Phases from given values (a constructed start), variables
   // 1..values.size()-1; the encodings' own variables false, which is what
   // one-sided encodings need for the fewest of them to be forced.
-  void suggest(const std::vector<bool>& values) {
+  // (`auxiliary`: the phase of the others).
+  void suggest(const std::vector<bool>& values, bool auxiliary = false) {
     if constexpr (requires { solver_.set_phase(literal(1)); }) {
       for (std::size_t v = 1; v < values.size(); ++v) {
         const literal x(static_cast<std::int32_t>(v));
         solver_.set_phase(values[v] ? x : ~x);
       }
-      for (auto v = static_cast<std::int32_t>(values.size()); v <= pool_.top(); ++v) solver_.set_phase(~literal(v));
+      for (auto v = static_cast<std::int32_t>(values.size()); v <= pool_.top(); ++v)
+        solver_.set_phase(auxiliary ? literal(v) : ~literal(v));
     }
   }
 
-  [[nodiscard]] double seconds() const {
-    return std::chrono::duration<double>(solver_clock::now() - start_).count();
-  }
+  [[nodiscard]] double seconds() const { return std::chrono::duration<double>(solver_clock::now() - start_).count(); }
   optimize_result finish(optimize_status status) {
     result_.status = status;
     result_.seconds = seconds();
