@@ -106,7 +106,8 @@ class byte_counting_sink {
 
 class stats_collector final : public model_handler {
  public:
-  explicit stats_collector(model_encoding_settings settings) : settings_(std::move(settings)) {
+  explicit stats_collector(model_encoding_settings settings)
+      : settings_(std::move(settings)), groups_(settings_) {
     for (const auto& m : method_table) by_method_.emplace(m.id, total{});
   }
 
@@ -127,7 +128,8 @@ class stats_collector final : public model_handler {
       if (t.coefficient != 0) ++objective_units_;
   }
   void constraint(const constraint_view& v) override {
-    const normalized_constraint c = normalize_view(v);
+    normalized_constraint c = normalize_view(v);
+    groups_.see(c, v.soft());
     constraint_row row;
     row.index = v.index;
     row.name = std::string(v.name);
@@ -350,6 +352,7 @@ class stats_collector final : public model_handler {
   }
 
   model_encoding_settings settings_;
+  group_finder groups_;
   variable_pool pool_;
   method_chooser chooser_;
   std::map<std::pair<method_id, bool>, std::uint64_t> bytes_;  // of the last shape measured afresh

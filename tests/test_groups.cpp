@@ -301,9 +301,8 @@ propagation_result measure_group_propagation(const model& m, group_method method
   return r;
 }
 
-bool applicable(group_method method, const cw::encode_options& options) {
-  return method == group_method::mdd || !options.full_equivalence;
-}
+// Every group method builds both relations and full equivalence.
+bool applicable(group_method /*method*/, const cw::encode_options& /*options*/) { return true; }
 
 // ---------------------------------------------------------------------------
 // Group detection.
@@ -442,28 +441,28 @@ TEST(GroupEncodings, ExhaustiveOnSmallModels) {
   EXPECT_GT(checked, 400U);
 }
 
-TEST(GroupEncodings, NotesNameTheMethods) {
-  // The notes the method table will read carry the names used here.
-  EXPECT_EQ(cw::group_mdd_note.name, name(group_method::mdd));
-  EXPECT_EQ(cw::group_generalized_totalizer_note.name, name(group_method::totalizer));
-  EXPECT_EQ(cw::group_reduced_generalized_totalizer_note.name, name(group_method::reduced_totalizer));
-  EXPECT_EQ(cw::group_sequential_weight_counter_note.name, name(group_method::weight_counter));
+TEST(GroupEncodings, TheMethodTableNamesTheMethods) {
+  // The table's rows carry the names used here, and apply only to rows with groups.
+  for (const auto method : all_methods) {
+    const auto id = cw::find_method(name(method));
+    ASSERT_TRUE(id.has_value()) << name(method);
+    EXPECT_TRUE(cw::info(*id).needs_groups) << name(method);
+  }
 }
 
-TEST(GroupEncodings, FullEquivalenceOnlyWhereBuilt) {
-  model m;
-  m.vars = 3;
-  m.amos = {{cw::lit(1), cw::lit(2), cw::lit(3)}};
-  m.row = {{2, cw::lit(1)}, {3, cw::lit(2)}, {1, cw::lit(3)}};
-  m.bound = 2;
-  for (const auto method : {group_method::totalizer, group_method::reduced_totalizer, group_method::weight_counter}) {
-    try {
-      (void)encode_model(m, method, cw::encode_options{true});
-      ADD_FAILURE() << name(method) << " accepted full equivalence";
-    } catch (const cw::error& e) {
-      EXPECT_EQ(e.id(), cw::error_id::method_not_applicable);
+TEST(GroupEncodings, FullEquivalenceDefinesEveryAuxiliaryVariable) {
+  // Through the table and the harness: with the at-most-one set in the
+  // formula, every auxiliary variable is a function of the inputs.
+  cw_test::raw_constraint c;
+  c.terms = {{2, cw::lit(1)}, {3, cw::lit(2)}, {1, cw::lit(3)}, {2, cw::lit(4)}};
+  c.amos = {{cw::lit(1), cw::lit(2), cw::lit(3)}};
+  for (const auto rel : {cw::relation::le, cw::relation::ge, cw::relation::eq})
+    for (std::int64_t bound = 1; bound <= 5; ++bound) {
+      c.rel = rel;
+      c.bound = bound;
+      for (const auto method : all_methods)
+        EXPECT_TRUE(cw_test::equivalent(c, *cw::find_method(name(method)), cw::encode_options{true}));
     }
-  }
 }
 
 TEST(GroupEncodings, RowsSharingGroupLiteralsThroughACache) {

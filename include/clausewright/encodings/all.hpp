@@ -11,6 +11,9 @@
 #include "cardinality_network.hpp"
 #include "commander.hpp"
 #include "generalized_totalizer.hpp"
+#include "group_generalized_totalizer.hpp"
+#include "group_mdd.hpp"
+#include "group_sequential_weight_counter.hpp"
 #include "ladder.hpp"
 #include "modulo_totalizer.hpp"
 #include "pairwise.hpp"
@@ -37,4 +40,8 @@
   X(bdd)                          \
   X(adder)                        \
   X(generalized_totalizer)        \
-  X(sequential_weight_counter)
+  X(sequential_weight_counter)    \
+  X(group_mdd)                    \
+  X(group_generalized_totalizer)  \
+  X(group_reduced_generalized_totalizer) \
+  X(group_sequential_weight_counter)

@@ -69,6 +69,7 @@
 #include "../groups.hpp"
 #include "bdd.hpp"
 #include "common.hpp"
+#include "descriptor.hpp"
 
 namespace clausewright {
 
@@ -324,15 +325,6 @@ class group_mdd_builder {
   std::uint64_t entries_ = 0;
 };
 
-inline constexpr group_method_note group_mdd_note{
-    "group-mdd",
-    "Bofill, Coll, Suy, Villaret 2017 (IJCAI), 2020 (Artificial Intelligence Review); intervals as in Abío et al. "
-    "2012 (JAIR)",
-    "at most groups*(K+1) nodes, one variable each, plus one per edge of several literals; per node 1 + e clauses "
-    "(<=, e edges leading elsewhere than none), plus the lower side for >=, = and full",
-    "arc-consistent for <= and >= together with the groups' at-most-one clauses; not for =",
-    "<=, >=, =, full_equivalence; needs the at-most-one constraints of the groups in the formula"};
-
 template <class Sink>
 void encode_group_mdd(Sink& out, variable_pool& pool, const grouped_constraint& c, const encode_options& options,
                       std::uint64_t node_budget = default_bdd_node_budget, group_literal_cache* cache = nullptr) {
@@ -362,5 +354,25 @@ void encode_group_mdd(Sink& out, variable_pool& pool, const grouped_constraint& 
       emit(out, ~builder.literal_of(r));
   }
 }
+
+// The method table's entry (methods.hpp).
+struct group_mdd_encoding {
+  static constexpr encoding_descriptor descriptor{
+      "group-mdd",
+      applies::cardinality | applies::linear,
+      true,
+      "Bofill, Coll, Suy, Villaret 2017 (IJCAI), 2020 (Artificial Intelligence Review); intervals as in Abio et al. "
+      "2012 (JAIR)",
+      "at most groups*(K+1) nodes, one variable each, plus one per edge of several literals; per node 1 + e clauses "
+      "(<=, e edges leading elsewhere than none), plus the lower side for >=, = and full",
+      "rows with at-most-one groups only, with their at-most-one constraints in the formula; a node budget "
+      "(default_bdd_node_budget)",
+      false,
+      true};
+  template <class Sink>
+  static void encode(Sink& out, variable_pool& pool, const normalized_constraint& c, const encode_options& options) {
+    encode_group_mdd(out, pool, grouped_view(c), options);
+  }
+};
 
 }  // namespace clausewright
