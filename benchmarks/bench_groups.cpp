@@ -199,9 +199,15 @@ int main(int argc, char** argv) {
   }
   std::vector<bench::family_instance> instances;
   if (family == "all" || family == "scheduling") {
-    const int shapes[][3] = {{10, 20, 1}, {15, 30, 1}, {20, 40, 1}, {20, 40, 2}, {25, 50, 1}, {30, 60, 1}, {30, 60, 2}};
+    // jobs, horizon, resources, shortest and longest duration, capacity (% of the average load)
+    const int shapes[][6] = {{10, 20, 1, 1, 6, 130},  {15, 30, 1, 1, 6, 130},  {20, 40, 1, 1, 6, 130},
+                             {20, 40, 2, 1, 6, 130},  {25, 50, 1, 1, 6, 130},  {30, 60, 1, 1, 6, 130},
+                             {30, 60, 2, 1, 6, 130},  {15, 30, 1, 1, 6, 105},  {20, 40, 2, 1, 6, 105},
+                             {30, 60, 1, 1, 6, 105},  {20, 40, 1, 3, 10, 130}, {30, 60, 2, 3, 10, 130},
+                             {25, 50, 1, 3, 10, 105}};
     std::uint64_t seed = 1;
-    for (const auto& p : shapes) instances.push_back(bench::group_scheduling(p[0], p[1], p[2], 1, seed++));
+    for (const auto& p : shapes)
+      instances.push_back(bench::group_scheduling(p[0], p[1], p[2], 1, seed++, p[3], p[4], p[5]));
   }
   if (family == "all" || family == "multimode") {
     const int shapes[][4] = {{10, 30, 1, 2}, {15, 40, 1, 3}, {20, 50, 2, 2}};
@@ -215,7 +221,16 @@ int main(int argc, char** argv) {
   }
   const std::vector<cw::method_id> blind{cw::method_id::bdd, cw::method_id::adder, cw::method_id::generalized_totalizer,
                                          cw::method_id::sequential_weight_counter};
-  std::map<std::string, std::pair<int, int>> wins;  // family -> (default-with-groups faster, instances)
+  struct tally {
+    int instances = 0;
+    double decision[3] = {0, 0, 0};  // seconds per configuration
+    int optimal[3] = {0, 0, 0};
+    std::int64_t best[3] = {0, 0, 0};  // sum of the best objective values reached
+    int faster = 0;                    // decision + optimisation: default with groups no slower than both others
+    double ratio_low = 1e9;
+    double ratio_high = 0;
+  };
+  std::map<std::string, tally> tallies;
   for (const auto& f : instances) {
     const cw::model m = bench::to_model(f);
     const std::vector<bool> hit = affected_rows(f);
@@ -249,30 +264,43 @@ int main(int argc, char** argv) {
     std::string picked;
     for (const auto& [name, n] : with_groups.picks) picked += " " + name + " x" + std::to_string(n);
     std::printf("  default picks:%s\n", picked.c_str());
-    if (best && with_groups.clauses != 0)
-      std::printf("  best group-blind (%s) / default with groups: %.2fx clauses\n", cw::info(*best).name.data(),
-                  static_cast<double>(best_clauses) / static_cast<double>(with_groups.clauses));
+    tally& t = tallies[f.family];
+    ++t.instances;
+    if (best && with_groups.clauses != 0) {
+      const double ratio = static_cast<double>(best_clauses) / static_cast<double>(with_groups.clauses);
+      std::printf("  best group-blind (%s) / default with groups: %.2fx clauses; default without / with groups: %.2fx\n",
+                  cw::info(*best).name.data(), ratio,
+                  static_cast<double>(no_groups.clauses) / static_cast<double>(with_groups.clauses));
+      t.ratio_low = std::min(t.ratio_low, ratio);
+      t.ratio_high = std::max(t.ratio_high, ratio);
+    }
     if (!solve) continue;
     const std::vector<configuration> runs{{"best group-blind " + std::string(best ? cw::info(*best).name : "?"), best,
                                            false},
                                           {"default, no groups", std::nullopt, false},
                                           {"default, groups", std::nullopt, true}};
     std::printf("  %-40s %-24s %-30s\n", "CaDiCaL", "decision", "optimisation (minimize)");
-    std::vector<double> decision_seconds;
-    for (const auto& c : runs) {
-      const solved d = decide(f, m, hit, c, timeout);
-      const solved o = optimise(f, m, hit, c, timeout);
-      decision_seconds.push_back(d.seconds + o.seconds);
-      std::printf("  %-40s %-24s %-30s\n", c.label.c_str(), cell(d).c_str(), cell(o).c_str());
+    double total[3] = {0, 0, 0};
+    for (std::size_t k = 0; k < runs.size(); ++k) {
+      const solved d = decide(f, m, hit, runs[k], timeout);
+      const solved o = optimise(f, m, hit, runs[k], timeout);
+      total[k] = d.seconds + o.seconds;
+      t.decision[k] += d.seconds;
+      t.optimal[k] += o.status == "optimal" ? 1 : 0;
+      t.best[k] += o.value.value_or(0);
+      std::printf("  %-40s %-24s %-30s\n", runs[k].label.c_str(), cell(d).c_str(), cell(o).c_str());
       std::fflush(stdout);
     }
-    auto& w = wins[f.family];
-    ++w.second;
-    if (decision_seconds[2] <= std::min(decision_seconds[0], decision_seconds[1])) ++w.first;
+    if (total[2] <= std::min(total[0], total[1])) ++t.faster;
   }
-  std::printf("\n");
-  for (const auto& [fam, w] : wins)
-    std::printf("%s: the default with groups is fastest (decision + optimisation) on %d of %d\n", fam.c_str(),
-                w.first, w.second);
+  if (!solve) return 0;
+  std::printf("\nper family: best group-blind / default with groups (clauses of the affected rows); CaDiCaL over "
+              "[best group-blind, default without groups, default with groups]\n");
+  for (const auto& [fam, t] : tallies)
+    std::printf("%-11s %2d instances: clauses %.2fx..%.2fx; decision %.2f/%.2f/%.2f s; optimal %d/%d/%d; sum of best "
+                "objectives %lld/%lld/%lld; with groups fastest in total on %d of %d\n",
+                fam.c_str(), t.instances, t.ratio_low, t.ratio_high, t.decision[0], t.decision[1], t.decision[2],
+                t.optimal[0], t.optimal[1], t.optimal[2], static_cast<long long>(t.best[0]),
+                static_cast<long long>(t.best[1]), static_cast<long long>(t.best[2]), t.faster, t.instances);
   return 0;
 }

@@ -697,11 +697,13 @@ struct assignment_params {
 // exactly-ones come first, so a streaming reader knows them before the rows.
 // Status unknown (no claim is made); the benchmark checks every answer
 // against the rows.
-//   - scheduling: J jobs of duration 1..6 and demand 1..5 per resource,
+//   - scheduling: J jobs of duration 1..6 (or shortest..longest) and demand
+//     1..5 per resource,
 //     start literals s(j,t) for t = 0..H-d_j, exactly one start per job
 //     ("job j"); per resource and time step tau the row "res R t TAU": sum
-//     over the starts running at tau of demand * s(j,t) <= capacity (1.3
-//     times the average load, at least the largest demand); objective: the
+//     over the starts running at tau of demand * s(j,t) <= capacity (130%,
+//     or capacity_percent, of the average load, at least the largest
+//     demand); objective: the
 //     total start time, sum t * s(j,t) (the groups are the jobs again).
 //     `modes` > 1: each job has modes k = 0.. (duration + 2k, demand - k, at
 //     least 1), one exactly-one over all (mode, start) pairs of the job, so
@@ -716,12 +718,14 @@ struct assignment_params {
 namespace clausewright::bench {
 
 [[nodiscard]] inline family_instance group_scheduling(int jobs, int horizon, int resources, int modes,
-                                                      std::uint64_t seed) {
+                                                      std::uint64_t seed, int shortest = 1, int longest = 6,
+                                                      int capacity_percent = 130) {
   detail::seeded_rng rng(seed);
   family_instance f;
   f.family = modes == 1 ? "scheduling" : "multimode";
   f.name = f.family + " J=" + std::to_string(jobs) + " H=" + std::to_string(horizon) + " R=" +
-           std::to_string(resources) + (modes > 1 ? " modes=" + std::to_string(modes) : std::string());
+           std::to_string(resources) + (modes > 1 ? " modes=" + std::to_string(modes) : std::string()) + " d=" +
+           std::to_string(shortest) + ".." + std::to_string(longest) + " cap=" + std::to_string(capacity_percent) + "%";
   struct start {
     int time;
     int duration;
@@ -734,7 +738,7 @@ namespace clausewright::bench {
   std::vector<std::int64_t> largest(r_count, 1);
   for (int j = 0; j < jobs; ++j) {
     std::vector<literal> choice;
-    const auto base_duration = static_cast<int>(rng.between(1, 6));
+    const auto base_duration = static_cast<int>(rng.between(shortest, longest));
     std::vector<std::int64_t> base_demand(r_count);
     for (auto& d : base_demand) d = rng.between(1, 5);
     for (int mode = 0; mode < modes; ++mode) {
@@ -754,8 +758,8 @@ namespace clausewright::bench {
     f.rows.push_back(detail::group_row(std::move(choice), row_group::exactly_one, "job " + std::to_string(j)));
   }
   for (std::size_t r = 0; r < r_count; ++r) {
-    const auto capacity =
-        std::max<std::int64_t>(largest[r], static_cast<std::int64_t>(1.3 * work[r] / horizon) + 1);
+    const auto capacity = std::max<std::int64_t>(
+        largest[r], static_cast<std::int64_t>(capacity_percent * work[r] / (100.0 * horizon)) + 1);
     for (int tau = 0; tau < horizon; ++tau) {
       model_row w;
       w.bound = capacity;

@@ -125,7 +125,11 @@ class group_mdd_builder {
     for (std::size_t i = 0; i < layers_.size(); ++i) memo_.emplace_back(&arena_);
   }
 
-  bdd_ref root(std::int64_t bound) { return build(bound).ref; }
+  bdd_ref root(std::int64_t bound) {
+    const bdd_ref r = build(bound).ref;
+    flush();
+    return r;
+  }
 
   [[nodiscard]] literal literal_of(bdd_ref r) const {
     CLAUSEWRIGHT_ASSERT(r.is_node(), "terminals have no literal");
@@ -197,7 +201,8 @@ class group_mdd_builder {
         throw error(error_id::over_budget, "too many MDD nodes", where_);
       r.ref = bdd_ref{static_cast<std::int32_t>(variables_.size())};
       variables_.push_back(pool_.fresh());
-      emit_node(variables_.back(), l, children);
+      pending_.push_back({variables_.back(), level, pending_children_.size()});
+      for (std::size_t e = 0; e <= l.edges; ++e) pending_children_.push_back(children[e].ref);
     }
     memo_[level].emplace(r.beta, memo_entry{r.gamma, r.ref});
     ++entries_;
@@ -268,24 +273,91 @@ class group_mdd_builder {
           out_, pool_, std::span<const literal>(inputs_).subspan(first, last - first), has_lower(which_), cache_);
     return edge_literal_[e];
   }
+  // Whether edge e (global index) is written through its literal: it is one
+  // literal already, it was made, rows share it (a cache), or two nodes or
+  // more of this diagram need it. An edge one node needs is written with its
+  // literals directly (a clause with ~y becomes one clause per literal, y in
+  // a clause becomes the literals): fewer clauses than defining y, and unit
+  // propagation derives the same.
+  [[nodiscard]] bool through_literal(std::size_t e) const {
+    return edge_first_[e + 1] - edge_first_[e] == 1 || edge_literal_[e].valid() || cache_ != nullptr || uses_[e] >= 2;
+  }
+  [[nodiscard]] std::span<const literal> edge_inputs(std::size_t e) const {
+    return std::span<const literal>(inputs_).subspan(edge_first_[e], edge_first_[e + 1] - edge_first_[e]);
+  }
 
-  void emit_node(literal v, const layer& l, std::span<const result> children) {
-    const bdd_ref none = children[0].ref;
-    auto child = [&](std::size_t e) { return children[e + 1].ref; };  // e local to the layer
-    auto edge = [&](std::size_t e) { return edge_literal(l.first_edge + e); };
+  // Which edges of a node its clauses mention (e local to the layer).
+  [[nodiscard]] bool node_uses(const layer& l, std::span<const bdd_ref> children, std::size_t e) const {
+    const bdd_ref none = children[0];
+    const bdd_ref child = children[e + 1];
+    if (has_upper(which_) && child != none) return true;
+    if (!has_lower(which_)) return false;
+    if (!child.is_false()) return true;
+    for (std::size_t f = e + 1; f <= l.edges; ++f) {
+      const bdd_ref target = f < l.edges ? children[f + 1] : none;
+      if (!target.is_false() && child != target) return true;
+    }
+    return false;
+  }
+
+  // Writes the nodes made since the last flush, once the uses of every edge
+  // by this diagram are known.
+  void flush() {
+    uses_.assign(edge_weight_.size(), 0);
+    for (const pending_node& n : pending_) {
+      const layer& l = layers_[n.level];
+      const auto children = std::span<const bdd_ref>(pending_children_).subspan(n.first_child, l.edges + 1);
+      for (std::size_t e = 0; e < l.edges; ++e)
+        if (node_uses(l, children, e)) ++uses_[l.first_edge + e];
+    }
+    for (const pending_node& n : pending_) {
+      const layer& l = layers_[n.level];
+      emit_node(n.variable, l, std::span<const bdd_ref>(pending_children_).subspan(n.first_child, l.edges + 1));
+    }
+    pending_.clear();
+    pending_children_.clear();
+  }
+
+  // The clause in clause_ plus ~(edge e): one clause with ~y, or one per
+  // literal of the edge.
+  void end_with_negated_edge(std::size_t e) {
+    if (satisfied_) return;
+    if (through_literal(e)) {
+      clause_.push_back(~edge_literal(e));
+      out_.add_clause(std::span<const literal>(clause_));
+      return;
+    }
+    clause_.push_back(literal());
+    for (const literal x : edge_inputs(e)) {
+      clause_.back() = ~x;
+      out_.add_clause(std::span<const literal>(clause_));
+    }
+  }
+  void add_edge(std::size_t e) {
+    if (through_literal(e)) {
+      clause_.push_back(edge_literal(e));
+    } else {
+      for (const literal x : edge_inputs(e)) clause_.push_back(x);
+    }
+  }
+
+  void emit_node(literal v, const layer& l, std::span<const bdd_ref> children) {
+    const bdd_ref none = children[0];
+    auto child = [&](std::size_t e) { return children[e + 1]; };  // e local to the layer
+    const std::size_t base = l.first_edge;
     if (has_upper(which_)) {
       begin(), add(~v), add_child(none, true), end();
       for (std::size_t e = 0; e < l.edges; ++e) {
         if (child(e) == none) continue;
-        const literal y = edge(e);
-        begin(), add(~v), add(~y), add_child(child(e), true), end();
+        if (through_literal(base + e)) (void)edge_literal(base + e);  // made before the clause is assembled
+        begin(), add(~v), add_child(child(e), true), end_with_negated_edge(base + e);
       }
     }
     if (has_lower(which_)) {
       for (std::size_t e = 0; e < l.edges; ++e) {
         if (child(e).is_false()) continue;
-        const literal y = edge(e);
-        begin(), add(v), add(~y), add_child(child(e), false), end();
+        if (through_literal(base + e)) (void)edge_literal(base + e);
+        begin(), add(v), add_child(child(e), false), end_with_negated_edge(base + e);
       }
       // Per edge e (and "none" last): v | ~c_e | the edges of larger
       // coefficient whose child differs from c_e.
@@ -293,16 +365,25 @@ class group_mdd_builder {
         const bdd_ref target = e < l.edges ? child(e) : none;
         if (target.is_false()) continue;
         for (std::size_t f = 0; f < e; ++f)
-          if (child(f) != target) (void)edge(f);  // made before the clause is assembled
+          if (child(f) != target && through_literal(base + f)) (void)edge_literal(base + f);
         begin();
         add(v);
         for (std::size_t f = 0; f < e; ++f)
-          if (child(f) != target) add(edge(f));
+          if (child(f) != target) add_edge(base + f);
         add_child(target, false);
         end();
       }
     }
   }
+
+  struct pending_node {
+    literal variable;
+    std::uint32_t level;
+    std::size_t first_child;  // into pending_children_: none, then one per edge
+  };
+  std::vector<pending_node> pending_;
+  std::vector<bdd_ref> pending_children_;
+  std::vector<std::uint32_t> uses_;  // per edge: nodes of the last flush that need it
 
   Sink& out_;
   variable_pool& pool_;
