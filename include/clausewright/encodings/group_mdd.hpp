@@ -58,8 +58,6 @@
 #include <cstdint>
 #include <functional>
 #include <limits>
-#include <map>
-#include <memory_resource>
 #include <numeric>
 #include <optional>
 #include <span>
@@ -68,6 +66,7 @@
 
 #include "../groups.hpp"
 #include "bdd.hpp"
+#include "../detail/interval_memo.hpp"
 #include "common.hpp"
 #include "descriptor.hpp"
 
@@ -121,8 +120,7 @@ class group_mdd_builder {
     for (std::size_t i = layers_.size(); i-- > 0;)
       rest_[i] =
           detail::checked_add(rest_[i + 1], edge_weight_[layers_[i].first_edge], where_, "the sum of the group maxima");
-    memo_.reserve(layers_.size());
-    for (std::size_t i = 0; i < layers_.size(); ++i) memo_.emplace_back(&arena_);
+    memo_.levels(layers_.size());
   }
 
   bdd_ref root(std::int64_t bound) {
@@ -140,8 +138,8 @@ class group_mdd_builder {
   [[nodiscard]] std::size_t layer_count() const noexcept { return layers_.size(); }
 
  private:
-  static constexpr std::int64_t minus_infinity = std::numeric_limits<std::int64_t>::min();
-  static constexpr std::int64_t plus_infinity = std::numeric_limits<std::int64_t>::max();
+  static constexpr std::int64_t minus_infinity = detail::interval_minus_infinity;
+  static constexpr std::int64_t plus_infinity = detail::interval_plus_infinity;
 
   struct layer {
     std::size_t first_edge = 0;  // into edge_weight_, edge_first_, edge_literal_
@@ -150,10 +148,6 @@ class group_mdd_builder {
   struct result {
     std::int64_t beta = 0;
     std::int64_t gamma = 0;
-    bdd_ref ref;
-  };
-  struct memo_entry {
-    std::int64_t gamma;
     bdd_ref ref;
   };
   struct frame {
@@ -166,17 +160,8 @@ class group_mdd_builder {
   std::optional<result> resolve(std::uint32_t level, std::int64_t k) const {
     if (k < 0) return result{minus_infinity, -1, bdd_ref{bdd_ref::false_terminal}};
     if (k >= rest_[level]) return result{rest_[level], plus_infinity, bdd_ref{bdd_ref::true_terminal}};
-    const auto& level_memo = memo_[level];
-    auto it = level_memo.upper_bound(k);
-    if (it == level_memo.begin()) return std::nullopt;
-    --it;
-    if (it->second.gamma >= k) return result{it->first, it->second.gamma, it->second.ref};
+    if (const auto kept = memo_.find(level, k)) return result{kept->beta, kept->gamma, kept->ref};
     return std::nullopt;
-  }
-
-  static std::int64_t shift(std::int64_t bound, std::int64_t weight) noexcept {
-    if (bound == minus_infinity || bound == plus_infinity) return bound;
-    return bound + weight;
   }
 
   // children[0] is the "none" child, children[e+1] the child of edge e.
@@ -186,8 +171,8 @@ class group_mdd_builder {
     bool all_same = true;
     for (std::size_t e = 0; e < l.edges; ++e) {
       const std::int64_t w = edge_weight_[l.first_edge + e];
-      r.beta = std::max(r.beta, shift(children[e + 1].beta, w));
-      r.gamma = std::min(r.gamma, shift(children[e + 1].gamma, w));
+      r.beta = std::max(r.beta, detail::interval_shift(children[e + 1].beta, w));
+      r.gamma = std::min(r.gamma, detail::interval_shift(children[e + 1].gamma, w));
       all_same = all_same && children[e + 1].ref == children[0].ref;
     }
     CLAUSEWRIGHT_ASSERT(r.beta <= k && k <= r.gamma, "MDD interval must contain its bound");
@@ -204,7 +189,7 @@ class group_mdd_builder {
       pending_.push_back({variables_.back(), level, pending_children_.size()});
       for (std::size_t e = 0; e <= l.edges; ++e) pending_children_.push_back(children[e].ref);
     }
-    memo_[level].emplace(r.beta, memo_entry{r.gamma, r.ref});
+    memo_.keep(level, r.beta, r.gamma, r.ref);
     ++entries_;
     return r;
   }
@@ -397,8 +382,7 @@ class group_mdd_builder {
   std::vector<std::size_t> edge_first_;  // edge e's literals: inputs_[edge_first_[e] .. edge_first_[e+1])
   std::vector<literal> edge_literal_;    // edge e's shared literal, once made
   std::vector<std::int64_t> rest_;       // rest_[g]: sum of the largest coefficients of layers g..
-  std::pmr::monotonic_buffer_resource arena_;
-  std::vector<std::pmr::map<std::int64_t, memo_entry>> memo_;  // per layer: beta -> [beta, gamma]
+  detail::interval_memo<bdd_ref> memo_;  // per level: beta -> [beta, gamma]
   std::vector<literal> variables_;                             // node literals
   std::vector<result> results_;                                // child results of the open frames
   std::vector<literal> clause_;
