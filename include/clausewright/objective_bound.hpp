@@ -43,6 +43,7 @@
 #include <span>
 #include <string>
 #include <string_view>
+#include <utility>
 #include <vector>
 
 #include "constraint.hpp"
@@ -345,8 +346,12 @@ class objective_bound {
 
  public:
   objective_bound(Sink& sink, variable_pool& pool, const objective& goal, bound_settings settings = {})
-      : out_(sink, counts_), pool_(pool), goal_(normalize_objective(goal)), settings_(settings), truth_(out_, pool_) {
-    method_ = settings.method;
+      : out_(sink, counts_),
+        pool_(pool),
+        goal_(normalize_objective(goal)),
+        settings_(std::move(settings)),
+        truth_(out_, pool_) {
+    method_ = settings_.method;
     if (method_ == bound_method::automatic)
       method_ = goal_.unit_coefficients() ? bound_method::totalizer : bound_method::bdd;
     if ((method_ == bound_method::sequential_counter || method_ == bound_method::totalizer) &&
