@@ -770,3 +770,75 @@ TEST(GroupEncodings, GroupFamiliesThroughTheModelEncoder) {
 }
 
 }  // namespace
+
+namespace {
+
+// The policies on rows with groups (seeded): the cheap choice equals the pick
+// from every size measured in full, and `propagating` takes a group method
+// exactly when one has fewer clauses than the group-blind pick and is
+// arc-consistent where that pick is (README "Choosing an encoding").
+TEST(GroupPolicy, CheapChoiceAndTheUpgradeRule) {
+  std::uint64_t upgrades = 0;
+  for (std::uint32_t seed = 1; seed <= 120; ++seed) {
+    std::mt19937_64 rng(seed);
+    const auto raw = cw_test::random_grouped(rng, static_cast<std::int32_t>(4 + rng() % 12), 9, false);
+    const cw::normalized_constraint c = raw.normalized();
+    if (c.kind != cw::constraint_kind::linear || !c.has_groups()) continue;
+    const cw::variable_pool pool(raw.max_var());
+    const auto all = cw::measure_all(pool, c);
+    for (const auto policy : cw::all_policies)
+      EXPECT_EQ(cw::select_method(pool, c, policy), cw::pick(all, policy, c))
+          << "seed " << seed << " policy " << cw::to_string(policy) << ": " << raw.describe();
+    // The rule, from the full measurements.
+    std::vector<cw::method_measurement> blind;
+    for (const auto& m : all)
+      if (!cw::info(m.method).needs_groups) blind.push_back(m);
+    const cw::method_id b = cw::pick(blind, cw::selection_policy::propagating, c);
+    std::uint64_t blind_clauses = 0;
+    for (const auto& m : blind)
+      if (m.method == b) blind_clauses = m.size.clauses;
+    std::optional<cw::method_id> expected;
+    std::uint64_t least = 0;
+    for (const auto& m : all) {
+      const auto& i = cw::info(m.method);
+      if (!i.needs_groups || m.over_budget || m.size.clauses >= blind_clauses) continue;
+      if (cw::info(b).arc_consistent && !i.arc_consistent) continue;
+      if (!expected || m.size.clauses < least) {
+        expected = m.method;
+        least = m.size.clauses;
+      }
+    }
+    const cw::method_id got = cw::select_method(pool, c, cw::selection_policy::propagating);
+    if (expected) {
+      EXPECT_TRUE(cw::info(got).needs_groups) << "seed " << seed << ": " << raw.describe();
+      EXPECT_EQ(cw::measure(got, pool, c).size.clauses, least) << "seed " << seed;
+      ++upgrades;
+    } else {
+      EXPECT_EQ(got, b) << "seed " << seed << ": " << raw.describe();
+    }
+  }
+  EXPECT_GT(upgrades, 10U);
+}
+
+// The shape cache keys on the grouping: the same coefficients with and
+// without groups never share a pick.
+TEST(GroupPolicy, ShapesDifferingInGroupingDoNotSharePicks) {
+  cw_test::raw_constraint raw;
+  for (std::int32_t v = 1; v <= 8; ++v) raw.terms.push_back({1 + v % 4, cw::lit(v)});
+  raw.bound = 7;
+  const cw::normalized_constraint blind = raw.normalized();
+  raw.amos = {{cw::lit(1), cw::lit(2), cw::lit(3), cw::lit(4)}, {cw::lit(5), cw::lit(6), cw::lit(7), cw::lit(8)}};
+  const cw::normalized_constraint grouped = raw.normalized();
+  ASSERT_TRUE(grouped.has_groups());
+  const cw::variable_pool pool(8);
+  cw::method_chooser chooser;
+  const cw::choice_settings s;
+  const cw::method_id first = chooser.pick(pool, blind, s);
+  const cw::method_id second = chooser.pick(pool, grouped, s);
+  EXPECT_FALSE(cw::info(first).needs_groups);
+  EXPECT_EQ(second, cw::select_method(pool, grouped));
+  EXPECT_TRUE(cw::info(second).needs_groups) << cw::info(second).name;
+  EXPECT_NE(cw::shape_of(blind, s), cw::shape_of(grouped, s));
+}
+
+}  // namespace
