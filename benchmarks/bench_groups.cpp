@@ -42,7 +42,6 @@ struct configuration {
   bool groups = true;
 };
 
-
 // The labels of the rows with groups, found as the model encoder finds them.
 std::vector<bool> affected_rows(const bench::family_instance& f) {
   cw::at_most_one_index sets;
@@ -124,8 +123,8 @@ std::vector<bool> values_of(const cw::optimize_result& r, std::int32_t n) {
   return v;
 }
 
-solved decide(const bench::family_instance& f, const cw::model& m, const std::vector<bool>& hit,
-              const configuration& c, double timeout) {
+solved decide(const bench::family_instance& f, const cw::model& m, const std::vector<bool>& hit, const configuration& c,
+              double timeout) {
   const auto start = std::chrono::steady_clock::now();
   cw::cadical_solver solver;
   cw::variable_pool pool;
@@ -154,8 +153,8 @@ solved optimise(const bench::family_instance& f, const cw::model& m, const std::
   solving_sink sink(solver, &cost);
   cw::encode_model(m, sink, pool, settings_for(f, hit, c));
   cw::optimize_options options;
-  options.time_limit = std::chrono::duration_cast<std::chrono::steady_clock::duration>(
-      std::chrono::duration<double>(timeout));
+  options.time_limit =
+      std::chrono::duration_cast<std::chrono::steady_clock::duration>(std::chrono::duration<double>(timeout));
   const cw::optimize_result r = cw::minimize(solver, pool, cost, options);
   solved s;
   s.seconds = since(start);
@@ -193,17 +192,19 @@ int main(int argc, char** argv) {
     } else if (a == "--family" && i + 1 < argc) {
       family = argv[++i];
     } else {
-      std::fprintf(stderr, "usage: bench_groups [--timeout SECONDS] [--family scheduling|multimode|assignment|all] [--sizes-only]\n");
+      std::fprintf(
+          stderr,
+          "usage: bench_groups [--timeout SECONDS] [--family scheduling|multimode|assignment|all] [--sizes-only]\n");
       return 2;
     }
   }
   std::vector<bench::family_instance> instances;
   if (family == "all" || family == "scheduling") {
     // jobs, horizon, resources, shortest and longest duration, capacity (% of the average load)
-    const int shapes[][6] = {{10, 20, 1, 1, 6, 130},  {15, 30, 1, 1, 6, 130},  {20, 40, 1, 1, 6, 130},
-                             {20, 40, 2, 1, 6, 130},  {25, 50, 1, 1, 6, 130},  {30, 60, 1, 1, 6, 130},
-                             {30, 60, 2, 1, 6, 130},  {15, 30, 1, 1, 6, 105},  {20, 40, 2, 1, 6, 105},
-                             {30, 60, 1, 1, 6, 105},  {20, 40, 1, 3, 10, 130}, {30, 60, 2, 3, 10, 130},
+    const int shapes[][6] = {{10, 20, 1, 1, 6, 130}, {15, 30, 1, 1, 6, 130},  {20, 40, 1, 1, 6, 130},
+                             {20, 40, 2, 1, 6, 130}, {25, 50, 1, 1, 6, 130},  {30, 60, 1, 1, 6, 130},
+                             {30, 60, 2, 1, 6, 130}, {15, 30, 1, 1, 6, 105},  {20, 40, 2, 1, 6, 105},
+                             {30, 60, 1, 1, 6, 105}, {20, 40, 1, 3, 10, 130}, {30, 60, 2, 3, 10, 130},
                              {25, 50, 1, 3, 10, 105}};
     std::uint64_t seed = 1;
     for (const auto& p : shapes)
@@ -268,17 +269,18 @@ int main(int argc, char** argv) {
     ++t.instances;
     if (best && with_groups.clauses != 0) {
       const double ratio = static_cast<double>(best_clauses) / static_cast<double>(with_groups.clauses);
-      std::printf("  best group-blind (%s) / default with groups: %.2fx clauses; default without / with groups: %.2fx\n",
-                  cw::info(*best).name.data(), ratio,
-                  static_cast<double>(no_groups.clauses) / static_cast<double>(with_groups.clauses));
+      std::printf(
+          "  best group-blind (%s) / default with groups: %.2fx clauses; default without / with groups: %.2fx\n",
+          cw::info(*best).name.data(), ratio,
+          static_cast<double>(no_groups.clauses) / static_cast<double>(with_groups.clauses));
       t.ratio_low = std::min(t.ratio_low, ratio);
       t.ratio_high = std::max(t.ratio_high, ratio);
     }
     if (!solve) continue;
-    const std::vector<configuration> runs{{"best group-blind " + std::string(best ? cw::info(*best).name : "?"), best,
-                                           false},
-                                          {"default, no groups", std::nullopt, false},
-                                          {"default, groups", std::nullopt, true}};
+    const std::vector<configuration> runs{
+        {"best group-blind " + std::string(best ? cw::info(*best).name : "?"), best, false},
+        {"default, no groups", std::nullopt, false},
+        {"default, groups", std::nullopt, true}};
     std::printf("  %-40s %-24s %-30s\n", "CaDiCaL", "decision", "optimisation (minimize)");
     double total[3] = {0, 0, 0};
     for (std::size_t k = 0; k < runs.size(); ++k) {
@@ -294,13 +296,15 @@ int main(int argc, char** argv) {
     if (total[2] <= std::min(total[0], total[1])) ++t.faster;
   }
   if (!solve) return 0;
-  std::printf("\nper family: best group-blind / default with groups (clauses of the affected rows); CaDiCaL over "
-              "[best group-blind, default without groups, default with groups]\n");
+  std::printf(
+      "\nper family: best group-blind / default with groups (clauses of the affected rows); CaDiCaL over "
+      "[best group-blind, default without groups, default with groups]\n");
   for (const auto& [fam, t] : tallies)
-    std::printf("%-11s %2d instances: clauses %.2fx..%.2fx; decision %.2f/%.2f/%.2f s; optimal %d/%d/%d; sum of best "
-                "objectives %lld/%lld/%lld; with groups fastest in total on %d of %d\n",
-                fam.c_str(), t.instances, t.ratio_low, t.ratio_high, t.decision[0], t.decision[1], t.decision[2],
-                t.optimal[0], t.optimal[1], t.optimal[2], static_cast<long long>(t.best[0]),
-                static_cast<long long>(t.best[1]), static_cast<long long>(t.best[2]), t.faster, t.instances);
+    std::printf(
+        "%-11s %2d instances: clauses %.2fx..%.2fx; decision %.2f/%.2f/%.2f s; optimal %d/%d/%d; sum of best "
+        "objectives %lld/%lld/%lld; with groups fastest in total on %d of %d\n",
+        fam.c_str(), t.instances, t.ratio_low, t.ratio_high, t.decision[0], t.decision[1], t.decision[2], t.optimal[0],
+        t.optimal[1], t.optimal[2], static_cast<long long>(t.best[0]), static_cast<long long>(t.best[1]),
+        static_cast<long long>(t.best[2]), t.faster, t.instances);
   return 0;
 }

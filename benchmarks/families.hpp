@@ -723,9 +723,10 @@ namespace clausewright::bench {
   detail::seeded_rng rng(seed);
   family_instance f;
   f.family = modes == 1 ? "scheduling" : "multimode";
-  f.name = f.family + " J=" + std::to_string(jobs) + " H=" + std::to_string(horizon) + " R=" +
-           std::to_string(resources) + (modes > 1 ? " modes=" + std::to_string(modes) : std::string()) + " d=" +
-           std::to_string(shortest) + ".." + std::to_string(longest) + " cap=" + std::to_string(capacity_percent) + "%";
+  f.name = f.family + " J=" + std::to_string(jobs) + " H=" + std::to_string(horizon) +
+           " R=" + std::to_string(resources) + (modes > 1 ? " modes=" + std::to_string(modes) : std::string()) +
+           " d=" + std::to_string(shortest) + ".." + std::to_string(longest) +
+           " cap=" + std::to_string(capacity_percent) + "%";
   struct start {
     int time;
     int duration;

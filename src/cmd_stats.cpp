@@ -106,8 +106,7 @@ class byte_counting_sink {
 
 class stats_collector final : public model_handler {
  public:
-  explicit stats_collector(model_encoding_settings settings)
-      : settings_(std::move(settings)), groups_(settings_) {
+  explicit stats_collector(model_encoding_settings settings) : settings_(std::move(settings)), groups_(settings_) {
     for (const auto& m : method_table) by_method_.emplace(m.id, total{});
   }
 

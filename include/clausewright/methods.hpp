@@ -48,7 +48,8 @@ struct method_info {
 
 namespace detail {
 [[nodiscard]] constexpr method_info row(method_id id, const encoding_descriptor& d) noexcept {
-  return {id, d.name, d.applies_to, d.arc_consistent, d.source, d.size_note, d.limits, d.objective_bound, d.needs_groups};
+  return {id,          d.name,   d.applies_to,      d.arc_consistent, d.source,
+          d.size_note, d.limits, d.objective_bound, d.needs_groups};
 }
 template <class E>
 concept predicts = requires(const normalized_constraint& c, const encode_options& o) {

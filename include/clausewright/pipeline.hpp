@@ -20,8 +20,8 @@
 // coefficients (two independent 64-bit sums of mixed coefficients, so order
 // does not matter and nothing of the size of the constraint is stored),
 // the group structure (a multiset hash of the groups' coefficient multisets,
-// so rows that differ in grouping never share a pick), plus the settings. Models repeat shapes (one exactly-one per item, one
-// capacity per bin), so each shape is measured once.
+// so rows that differ in grouping never share a pick), plus the settings. Models repeat shapes (one exactly-one per
+// item, one capacity per bin), so each shape is measured once.
 #pragma once
 
 #include <algorithm>
@@ -60,7 +60,7 @@ struct choice_settings {
 struct constraint_shape {
   std::uint64_t coefficients_a = 0;  // multiset hashes of the coefficients
   std::uint64_t coefficients_b = 0;
-  std::uint64_t order = 0;  // hash of the coefficients in order (0 when unordered)
+  std::uint64_t order = 0;   // hash of the coefficients in order (0 when unordered)
   std::uint64_t groups = 0;  // multiset hash of the groups' coefficient multisets (0: no groups)
   std::int64_t bound = 0;
   std::uint64_t inputs = 0;
@@ -87,11 +87,11 @@ namespace detail {
 struct shape_hash {
   std::size_t operator()(const constraint_shape& s) const noexcept {
     std::uint64_t h = s.coefficients_a;
-    for (const std::uint64_t x :
-         {s.coefficients_b, s.order, s.groups, static_cast<std::uint64_t>(s.bound), s.inputs, s.units, s.budget, s.floor,
-          static_cast<std::uint64_t>(s.kind) | (static_cast<std::uint64_t>(s.rel) << 8U) |
-              (static_cast<std::uint64_t>(s.policy) << 16U) |
-              (s.full_equivalence ? std::uint64_t{1} << 24U : std::uint64_t{0})})
+    for (const std::uint64_t x : {s.coefficients_b, s.order, s.groups, static_cast<std::uint64_t>(s.bound), s.inputs,
+                                  s.units, s.budget, s.floor,
+                                  static_cast<std::uint64_t>(s.kind) | (static_cast<std::uint64_t>(s.rel) << 8U) |
+                                      (static_cast<std::uint64_t>(s.policy) << 16U) |
+                                      (s.full_equivalence ? std::uint64_t{1} << 24U : std::uint64_t{0})})
       h = mix64(h ^ x);
     return static_cast<std::size_t>(h);
   }

@@ -48,7 +48,13 @@ class weighted_joiner {
   // `what` names the method in the budget error.
   weighted_joiner(Sink& out, variable_pool& pool, std::int64_t cap, sides which, std::uint64_t output_budget,
                   error_position where, std::string_view what)
-      : out_(out), pool_(pool), cap_(cap), which_(which), budget_(output_budget), where_(std::move(where)), what_(what) {}
+      : out_(out),
+        pool_(pool),
+        cap_(cap),
+        which_(which),
+        budget_(output_budget),
+        where_(std::move(where)),
+        what_(what) {}
 
   [[nodiscard]] std::int64_t cap() const noexcept { return cap_; }
   [[nodiscard]] std::uint64_t outputs_made() const noexcept { return made_; }

@@ -48,8 +48,8 @@
 #include <string>
 #include <vector>
 
-#include "../detail/subset_sums.hpp"
 #include "../detail/interval_memo.hpp"
+#include "../detail/subset_sums.hpp"
 #include "common.hpp"
 #include "descriptor.hpp"
 

@@ -104,7 +104,7 @@ class group_totalizer_builder {
       while (j < outputs.size() && outputs[j].value == outputs[i].value) ++j;
       const literal y = pool_.fresh();
       for (std::size_t k = i; k < j; ++k) emit(out_, ~outputs[k].lit, y);  // x -> y_(a_x)
-      if (!ordered.empty()) emit(out_, ~y, ordered.back().lit);          // y_a -> y_a'
+      if (!ordered.empty()) emit(out_, ~y, ordered.back().lit);            // y_a -> y_a'
       some_.clear();
       some_.push_back(~y);
       for (std::size_t k = i; k < outputs.size(); ++k) some_.push_back(outputs[k].lit);

@@ -64,9 +64,9 @@
 #include <string>
 #include <vector>
 
+#include "../detail/interval_memo.hpp"
 #include "../groups.hpp"
 #include "bdd.hpp"
-#include "../detail/interval_memo.hpp"
 #include "common.hpp"
 #include "descriptor.hpp"
 
@@ -383,8 +383,8 @@ class group_mdd_builder {
   std::vector<literal> edge_literal_;    // edge e's shared literal, once made
   std::vector<std::int64_t> rest_;       // rest_[g]: sum of the largest coefficients of layers g..
   detail::interval_memo<bdd_ref> memo_;  // per level: beta -> [beta, gamma]
-  std::vector<literal> variables_;                             // node literals
-  std::vector<result> results_;                                // child results of the open frames
+  std::vector<literal> variables_;       // node literals
+  std::vector<result> results_;          // child results of the open frames
   std::vector<literal> clause_;
   bool satisfied_ = false;
   std::uint64_t entries_ = 0;

@@ -126,8 +126,8 @@ void group_sequential_weight_at_most(Sink& out, variable_pool& pool, const std::
     classes.push_back(detail::coefficient_classes(g));
     for (const auto& [a, m] : classes.back()) {
       if (m > 1) {
-        size.variables += 1;                   // the shared literal
-        detail::add_clauses(size, m, 2);       // x -> y
+        size.variables += 1;              // the shared literal
+        detail::add_clauses(size, m, 2);  // x -> y
       }
     }
   }
