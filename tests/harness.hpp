@@ -37,7 +37,7 @@ struct raw_constraint {
   std::vector<cw::term> terms;
   cw::relation rel = cw::relation::le;
   std::int64_t bound = 0;
-  std::vector<std::vector<cw::literal>> amos;
+  std::vector<std::vector<cw::literal>> amos = {};  // defaulted: aggregate initialisers may leave it out
 
   // Whether the constraint and every at-most-one set hold.
   template <class ValueOf>

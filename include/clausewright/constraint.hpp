@@ -86,7 +86,7 @@ struct normalized_constraint {
   // when no group has two literals; then only the group-blind methods apply.
   // The group-aware methods are correct only with the at-most-one
   // constraints the groups come from in the same formula.
-  std::vector<std::uint32_t> group_of;
+  std::vector<std::uint32_t> group_of = {};
 
   [[nodiscard]] std::size_t size() const noexcept { return literals.size(); }
   // Whether some group has two literals or more (group_of is kept empty otherwise).

@@ -84,7 +84,7 @@ struct model_encoding_settings : choice_settings {
   bool find_groups = true;
   // At-most-one sets the caller vouches for beside the model's own: each
   // must hold in the formula (stated as constraints, or implied by them).
-  std::vector<std::vector<literal>> at_most_one_sets;
+  std::vector<std::vector<literal>> at_most_one_sets = {};
 };
 
 // The model's at-most-one sets as they arrive, and the groups of each row.

@@ -132,7 +132,7 @@ struct bound_settings {
   // For `reencode`: at-most-one sets that hold in the formula (an assignment
   // cost objective has one exactly-one per task): each bound gets its groups
   // from them, so the group methods of the table apply (groups.hpp).
-  std::vector<std::vector<literal>> at_most_one_sets;
+  std::vector<std::vector<literal>> at_most_one_sets = {};
 };
 
 namespace detail {
