@@ -1035,3 +1035,142 @@ void encode(const instance& m, Solver& solver, cw::variable_pool& pool, std::opt
 }
 
 }  // namespace clausewright::bench
+
+// ===========================================================================
+// At-most-one group families (bench_groups, tests/test_groups.cpp).
+//
+// Rows whose literals fall into the model's exactly-one sets; the
+// exactly-ones come first, so a streaming reader knows them before the rows.
+// Status unknown (no claim is made); the benchmark checks every answer
+// against the rows.
+//   - scheduling: J jobs of duration 1..6 (or shortest..longest) and demand
+//     1..5 per resource,
+//     start literals s(j,t) for t = 0..H-d_j, exactly one start per job
+//     ("job j"); per resource and time step tau the row "res R t TAU": sum
+//     over the starts running at tau of demand * s(j,t) <= capacity (130%,
+//     or capacity_percent, of the average load, at least the largest
+//     demand); objective: the
+//     total start time, sum t * s(j,t) (the groups are the jobs again).
+//     `modes` > 1: each job has modes k = 0.. (duration + 2k, demand - k, at
+//     least 1), one exactly-one over all (mode, start) pairs of the job, so
+//     the coefficients inside a group differ.
+//   - assignment: T tasks on M machines, x(t,m), exactly one machine per
+//     task ("task t"); a load row per machine (sizes 1..5, capacity 1.15
+//     times the even share: one literal per task, no groups); two budget rows
+//     "budget B" over all pairs (costs 1..10, bound the cheapest choice per
+//     task plus half the way to the average); objective: a third cost 1..10.
+// ===========================================================================
+
+namespace clausewright::bench {
+
+[[nodiscard]] inline family_instance group_scheduling(int jobs, int horizon, int resources, int modes,
+                                                      std::uint64_t seed, int shortest = 1, int longest = 6,
+                                                      int capacity_percent = 130) {
+  detail::seeded_rng rng(seed);
+  family_instance f;
+  f.family = modes == 1 ? "scheduling" : "multimode";
+  f.name = f.family + " J=" + std::to_string(jobs) + " H=" + std::to_string(horizon) +
+           " R=" + std::to_string(resources) + (modes > 1 ? " modes=" + std::to_string(modes) : std::string()) +
+           " d=" + std::to_string(shortest) + ".." + std::to_string(longest) +
+           " cap=" + std::to_string(capacity_percent) + "%";
+  struct start {
+    int time;
+    int duration;
+    std::vector<std::int64_t> demand;
+    literal lit;
+  };
+  const auto r_count = static_cast<std::size_t>(resources);
+  std::vector<start> starts;
+  std::vector<double> work(r_count, 0.0);
+  std::vector<std::int64_t> largest(r_count, 1);
+  for (int j = 0; j < jobs; ++j) {
+    std::vector<literal> choice;
+    const auto base_duration = static_cast<int>(rng.between(shortest, longest));
+    std::vector<std::int64_t> base_demand(r_count);
+    for (auto& d : base_demand) d = rng.between(1, 5);
+    for (int mode = 0; mode < modes; ++mode) {
+      const int duration = base_duration + 2 * mode;
+      std::vector<std::int64_t> demand;
+      for (std::size_t r = 0; r < r_count; ++r) {
+        demand.push_back(std::max<std::int64_t>(1, base_demand[r] - mode));
+        largest[r] = std::max(largest[r], demand.back());
+        work[r] += static_cast<double>(duration * demand.back()) / modes;
+      }
+      for (int t = 0; t + duration <= horizon; ++t) {
+        starts.push_back({t, duration, demand, literal(++f.variables)});
+        choice.push_back(starts.back().lit);
+        f.objective.push_back({t, starts.back().lit});
+      }
+    }
+    f.rows.push_back(detail::group_row(std::move(choice), row_group::exactly_one, "job " + std::to_string(j)));
+  }
+  for (std::size_t r = 0; r < r_count; ++r) {
+    const auto capacity = std::max<std::int64_t>(
+        largest[r], static_cast<std::int64_t>(capacity_percent * work[r] / (100.0 * horizon)) + 1);
+    for (int tau = 0; tau < horizon; ++tau) {
+      model_row w;
+      w.bound = capacity;
+      w.label = "res " + std::to_string(r) + " t " + std::to_string(tau);
+      for (const start& s : starts)
+        if (s.time <= tau && tau < s.time + s.duration) w.terms.push_back({s.demand[r], s.lit});
+      if (!w.terms.empty()) f.rows.push_back(std::move(w));
+    }
+  }
+  f.why = "no claim (generated; answers are checked against the rows)";
+  return f;
+}
+
+[[nodiscard]] inline family_instance group_assignment(int tasks, int machines, std::uint64_t seed) {
+  detail::seeded_rng rng(seed);
+  family_instance f;
+  f.family = "assignment";
+  f.name = "assignment T=" + std::to_string(tasks) + " M=" + std::to_string(machines);
+  std::vector<std::vector<literal>> x(static_cast<std::size_t>(tasks));
+  for (auto& row : x) {
+    for (int k = 0; k < machines; ++k) row.push_back(literal(++f.variables));
+    f.rows.push_back(detail::group_row(row, row_group::exactly_one, "task " + std::to_string(&row - x.data())));
+  }
+  std::vector<std::int64_t> size;
+  std::int64_t total = 0;
+  for (int t = 0; t < tasks; ++t) {
+    size.push_back(rng.between(1, 5));
+    total += size.back();
+  }
+  for (int k = 0; k < machines; ++k) {
+    model_row w;
+    w.bound = static_cast<std::int64_t>(1.15 * static_cast<double>(total) / machines) + 1;
+    w.label = "load " + std::to_string(k);
+    for (std::size_t t = 0; t < x.size(); ++t) w.terms.push_back({size[t], x[t][static_cast<std::size_t>(k)]});
+    f.rows.push_back(std::move(w));
+  }
+  for (int b = 0; b < 3; ++b) {
+    std::vector<term> terms;
+    double cheapest = 0;
+    double average = 0;
+    for (const auto& row : x) {
+      std::int64_t low = 10;
+      std::int64_t sum = 0;
+      for (const literal l : row) {
+        const std::int64_t c = rng.between(1, 10);
+        low = std::min(low, c);
+        sum += c;
+        terms.push_back({c, l});
+      }
+      cheapest += static_cast<double>(low);
+      average += static_cast<double>(sum) / machines;
+    }
+    if (b == 2) {
+      f.objective = std::move(terms);
+      break;
+    }
+    model_row w;
+    w.terms = std::move(terms);
+    w.bound = static_cast<std::int64_t>(cheapest + 0.5 * (average - cheapest));
+    w.label = "budget " + std::to_string(b);
+    f.rows.push_back(std::move(w));
+  }
+  f.why = "no claim (generated; answers are checked against the rows)";
+  return f;
+}
+
+}  // namespace clausewright::bench

@@ -320,6 +320,17 @@ int run_solve(const solve_request& r) {
   options.record_variables = m.variables();
   options.bound.method = *bound;
   options.bound.policy = settings.policy;
+  if (*bound == bound_method::reencode) {
+    // The model's hard at-most-one sets: each re-encoded bound gets its
+    // groups from them, so the group methods of the table apply.
+    for (std::size_t i = 0; i < m.constraints(); ++i) {
+      const constraint_view c = m.constraint(i);
+      if (c.soft()) continue;
+      const normalized_constraint n = normalize_view(c);
+      if (n.kind == constraint_kind::at_most_one || n.kind == constraint_kind::exactly_one)
+        options.bound.at_most_one_sets.push_back(n.literals);
+    }
+  }
   options.evaluate = [&m](const std::vector<bool>& values) { return to_int64(cost_of(m, values).total(), "the cost"); };
   options.on_solution = [&m, found = std::uint64_t{0}](const improving_solution& s) mutable {
     // The variables set true, the first few of them: enough to follow the

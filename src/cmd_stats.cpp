@@ -141,7 +141,7 @@ struct group_key_hash {
 
 class stats_collector final : public model_handler {
  public:
-  explicit stats_collector(model_encoding_settings settings) : settings_(std::move(settings)) {
+  explicit stats_collector(model_encoding_settings settings) : settings_(std::move(settings)), at_most_one_(settings_) {
     for (const auto& m : method_table) {
       by_method_.emplace(m.id, total{});
       cnf_pools_.emplace(m.id, variable_pool{});
@@ -175,7 +175,8 @@ class stats_collector final : public model_handler {
       if (t.coefficient != 0) ++objective_units_;
   }
   void constraint(const constraint_view& v) override {
-    const normalized_constraint c = normalize_view(v);
+    normalized_constraint c = normalize_view(v);
+    at_most_one_.see(c, v.soft());
     constraint_row row;
     row.index = v.index;
     row.name = std::string(v.name);
@@ -763,6 +764,7 @@ class stats_collector final : public model_handler {
   }
 
   model_encoding_settings settings_;
+  group_finder at_most_one_;  // the at-most-one groups of each row
   variable_pool pool_;
   variable_pool picked_cnf_pool_;                 // CNF numbering of the picked methods (no soft constraints)
   std::map<method_id, variable_pool> cnf_pools_;  // the same under each method alone

@@ -29,11 +29,29 @@ namespace cw_test {
 
 namespace cw = clausewright;
 
-// A constraint as a user states it (before normalisation).
+// A constraint as a user states it (before normalisation), with the
+// at-most-one sets of the model around it (for the group methods, which rely
+// on them): encode() adds them to the formula pairwise, and the checks hold
+// the clauses to the constraint and the sets together.
 struct raw_constraint {
   std::vector<cw::term> terms;
   cw::relation rel = cw::relation::le;
   std::int64_t bound = 0;
+  std::vector<std::vector<cw::literal>> amos = {};  // defaulted: aggregate initialisers may leave it out
+
+  // Whether the constraint and every at-most-one set hold.
+  template <class ValueOf>
+  [[nodiscard]] bool satisfied(ValueOf&& value) const {
+    for (const auto& set : amos) {
+      int count = 0;
+      for (const cw::literal l : set) {
+        const bool v = value(l.var());
+        count += (l.negative() ? !v : v) ? 1 : 0;
+      }
+      if (count > 1) return false;
+    }
+    return cw::holds(terms, rel, bound, value);
+  }
 
   [[nodiscard]] std::string describe() const {
     std::ostringstream os;
@@ -43,6 +61,10 @@ struct raw_constraint {
     }
     if (terms.empty()) os << "0";
     os << " " << cw::to_string(rel) << " " << bound;
+    for (const auto& set : amos) {
+      os << (&set == &amos.front() ? "; at most one of" : ",");
+      for (const cw::literal l : set) os << (l.negative() ? " ~x" : " x") << l.var();
+    }
     return os.str();
   }
   // Distinct input variables (sorted).
@@ -56,7 +78,12 @@ struct raw_constraint {
     for (const auto& t : terms) m = std::max(m, t.lit.var());
     return m;
   }
-  [[nodiscard]] cw::normalized_constraint normalized() const { return cw::normalize(terms, rel, bound); }
+  // Normalised, with its groups found from the at-most-one sets.
+  [[nodiscard]] cw::normalized_constraint normalized() const {
+    cw::normalized_constraint c = cw::normalize(terms, rel, bound);
+    if (!amos.empty()) cw::assign_groups(c, cw::at_most_one_index(amos));
+    return c;
+  }
 };
 
 inline raw_constraint cardinality(std::int32_t n, cw::relation rel, std::int64_t k, bool negate_some = false) {
@@ -78,6 +105,9 @@ inline encoded encode(const raw_constraint& c, cw::method_id method, const cw::e
   encoded e;
   e.pool.reserve_user(std::max<std::int32_t>(c.max_var(), 1));
   e.normal = c.normalized();
+  for (const auto& set : c.amos)
+    for (std::size_t i = 0; i < set.size(); ++i)
+      for (std::size_t j = i + 1; j < set.size(); ++j) cw::emit(e.cnf, ~set[i], ~set[j]);
   cw::encode_with(method, e.cnf, e.pool, e.normal, options);
   return e;
 }
@@ -119,7 +149,7 @@ inline ::testing::AssertionResult equivalent(const raw_constraint& c, cw::method
     for (std::size_t i = 0; i < inputs.size(); ++i) solver.assume(((bits >> i) & 1U) ? inputs[i] : -inputs[i]);
     const int status = solver.solve();
     const bool sat = status == 10;
-    const bool expected = cw::holds(c.terms, c.rel, c.bound, value);
+    const bool expected = c.satisfied(value);
     if (status != 10 && status != 20) return ::testing::AssertionFailure() << "CaDiCaL returned " << status;
     if (sat != expected) {
       std::ostringstream os;
@@ -269,7 +299,7 @@ inline propagation_report measure_propagation(const raw_constraint& c, cw::metho
           if (inputs[i] == var) return full[i] > 0;
         return false;
       };
-      if (!cw::holds(c.terms, c.rel, c.bound, value)) continue;
+      if (!c.satisfied(value)) continue;
       satisfiable = true;
       for (std::size_t f : free) can_be[f] |= full[f] > 0 ? 1 : 2;
     }
@@ -327,6 +357,34 @@ inline raw_constraint random_linear(std::mt19937_64& rng, std::int32_t n, std::i
   std::int64_t positive = 0;
   for (const auto& t : c.terms) positive += t.coefficient > 0 ? t.coefficient : 0;
   std::uniform_int_distribution<std::int64_t> bound(-2, positive + 2);
+  c.bound = bound(rng);
+  c.rel = static_cast<cw::relation>(rng() % 3);
+  return c;
+}
+
+// A row over variables 1..n whose terms fall into at-most-one sets: blocks of
+// 1 to 3 consecutive terms, each set the block's literals as the row states
+// them (positive coefficients, so normalisation keeps the literals and the
+// groups are the blocks). `unit`: every coefficient 1 (a cardinality row).
+inline raw_constraint random_grouped(std::mt19937_64& rng, std::int32_t n, std::int64_t max_coefficient, bool unit) {
+  raw_constraint c;
+  std::uniform_int_distribution<std::int64_t> coef(1, max_coefficient);
+  std::int64_t most = 0;
+  for (std::int32_t v = 1; v <= n;) {
+    const std::int32_t size = std::min<std::int32_t>(n - v + 1, 1 + static_cast<std::int32_t>(rng() % 3));
+    std::vector<cw::literal> set;
+    std::int64_t block_most = 0;
+    for (std::int32_t i = 0; i < size; ++i, ++v) {
+      const cw::literal l = cw::lit((rng() & 3U) == 0 ? -v : v);
+      const std::int64_t a = unit ? 1 : coef(rng);
+      c.terms.push_back({a, l});
+      set.push_back(l);
+      block_most = std::max(block_most, a);
+    }
+    most += block_most;
+    if (set.size() > 1) c.amos.push_back(std::move(set));
+  }
+  std::uniform_int_distribution<std::int64_t> bound(0, most + 1);
   c.bound = bound(rng);
   c.rel = static_cast<cw::relation>(rng() % 3);
   return c;

@@ -26,6 +26,7 @@
 
 #include <algorithm>
 #include <cadical.hpp>
+#include <clausewright/cadical.hpp>
 #include <clausewright/clausewright.hpp>
 #include <clausewright/encodings/group_generalized_totalizer.hpp>
 #include <clausewright/encodings/group_mdd.hpp>
@@ -39,6 +40,7 @@
 #include <string>
 #include <vector>
 
+#include "../benchmarks/families.hpp"
 #include "harness.hpp"
 
 namespace {
@@ -301,9 +303,8 @@ propagation_result measure_group_propagation(const model& m, group_method method
   return r;
 }
 
-bool applicable(group_method method, const cw::encode_options& options) {
-  return method == group_method::mdd || !options.full_equivalence;
-}
+// Every group method builds both relations and full equivalence.
+bool applicable(group_method /*method*/, const cw::encode_options& /*options*/) { return true; }
 
 // ---------------------------------------------------------------------------
 // Group detection.
@@ -442,28 +443,28 @@ TEST(GroupEncodings, ExhaustiveOnSmallModels) {
   EXPECT_GT(checked, 400U);
 }
 
-TEST(GroupEncodings, NotesNameTheMethods) {
-  // The notes the method table will read carry the names used here.
-  EXPECT_EQ(cw::group_mdd_note.name, name(group_method::mdd));
-  EXPECT_EQ(cw::group_generalized_totalizer_note.name, name(group_method::totalizer));
-  EXPECT_EQ(cw::group_reduced_generalized_totalizer_note.name, name(group_method::reduced_totalizer));
-  EXPECT_EQ(cw::group_sequential_weight_counter_note.name, name(group_method::weight_counter));
+TEST(GroupEncodings, TheMethodTableNamesTheMethods) {
+  // The table's rows carry the names used here, and apply only to rows with groups.
+  for (const auto method : all_methods) {
+    const auto id = cw::find_method(name(method));
+    ASSERT_TRUE(id.has_value()) << name(method);
+    EXPECT_TRUE(cw::info(*id).needs_groups) << name(method);
+  }
 }
 
-TEST(GroupEncodings, FullEquivalenceOnlyWhereBuilt) {
-  model m;
-  m.vars = 3;
-  m.amos = {{cw::lit(1), cw::lit(2), cw::lit(3)}};
-  m.row = {{2, cw::lit(1)}, {3, cw::lit(2)}, {1, cw::lit(3)}};
-  m.bound = 2;
-  for (const auto method : {group_method::totalizer, group_method::reduced_totalizer, group_method::weight_counter}) {
-    try {
-      (void)encode_model(m, method, cw::encode_options{true});
-      ADD_FAILURE() << name(method) << " accepted full equivalence";
-    } catch (const cw::error& e) {
-      EXPECT_EQ(e.id(), cw::error_id::method_not_applicable);
+TEST(GroupEncodings, FullEquivalenceDefinesEveryAuxiliaryVariable) {
+  // Through the table and the harness: with the at-most-one set in the
+  // formula, every auxiliary variable is a function of the inputs.
+  cw_test::raw_constraint c;
+  c.terms = {{2, cw::lit(1)}, {3, cw::lit(2)}, {1, cw::lit(3)}, {2, cw::lit(4)}};
+  c.amos = {{cw::lit(1), cw::lit(2), cw::lit(3)}};
+  for (const auto rel : {cw::relation::le, cw::relation::ge, cw::relation::eq})
+    for (std::int64_t bound = 1; bound <= 5; ++bound) {
+      c.rel = rel;
+      c.bound = bound;
+      for (const auto method : all_methods)
+        EXPECT_TRUE(cw_test::equivalent(c, *cw::find_method(name(method)), cw::encode_options{true}));
     }
-  }
 }
 
 TEST(GroupEncodings, RowsSharingGroupLiteralsThroughACache) {
@@ -702,6 +703,142 @@ TEST(GroupEncodings, GroupsCutTheSchedulingRow) {
     encode_group(method, sink, pool, m.grouped(), {});
     EXPECT_LT(sink.clauses(), blind.clauses()) << name(method);
   }
+}
+
+TEST(GroupEncodings, GroupMddCutsTheFamilyRows) {
+  // The resource rows of a small time-indexed schedule of the group families
+  // (benchmarks/families.hpp): the group MDD is smaller than the group-blind
+  // BDD of the same row (the other group methods not always: a row of few
+  // short jobs has few literals per group).
+  const auto f = cw::bench::group_scheduling(6, 10, 1, 1, 3);
+  cw::at_most_one_index sets;
+  std::uint64_t rows = 0;
+  for (const auto& r : f.rows) {
+    cw::normalized_constraint c = cw::normalize(r.terms, r.rel, r.bound);
+    if (r.group != cw::bench::row_group::none) {
+      sets.add(c.literals);
+      continue;
+    }
+    cw::assign_groups(c, sets);
+    if (!c.has_groups() || c.size() < 6) continue;
+    ++rows;
+    cw::counting_sink blind;
+    cw::variable_pool blind_pool(f.variables);
+    cw::encode_with(cw::method_id::bdd, blind, blind_pool, c);
+    cw::counting_sink sink;
+    cw::variable_pool pool(f.variables);
+    encode_group(group_method::mdd, sink, pool, cw::grouped_view(c), {});
+    EXPECT_LT(sink.clauses(), blind.clauses()) << r.label;
+  }
+  EXPECT_GT(rows, 3U);
+}
+
+TEST(GroupEncodings, GroupFamiliesThroughTheModelEncoder) {
+  // Whole models of the group families through the model encoder into
+  // CaDiCaL, with the default policy: the rows with groups get group methods
+  // where they win, and the answer, checked row by row, agrees in status with
+  // the same model encoded without groups.
+  const std::vector<cw::bench::family_instance> instances{
+      cw::bench::group_scheduling(6, 10, 1, 1, 5), cw::bench::group_scheduling(5, 12, 2, 2, 6),
+      cw::bench::group_scheduling(6, 8, 1, 1, 7, 2, 4, 90), cw::bench::group_assignment(8, 3, 8)};
+  for (const auto& f : instances) {
+    const cw::model m = cw::bench::to_model(f);
+    int status[2] = {0, 0};
+    std::uint64_t group_picks = 0;
+    for (const bool groups : {false, true}) {
+      cw::cadical_solver solver;
+      cw::variable_pool pool;
+      cw::model_encoding_settings settings;
+      settings.find_groups = groups;
+      cw::encode_model(m, solver, pool, settings, [&](const cw::constraint_outcome& o) {
+        if (o.method && cw::info(*o.method).needs_groups) ++group_picks;
+      });
+      const auto r = solver.solve();
+      status[groups ? 1 : 0] = static_cast<int>(r);
+      if (r == cw::solve_result::satisfiable) {
+        std::vector<bool> values(static_cast<std::size_t>(f.variables) + 1, false);
+        for (std::int32_t v = 1; v <= f.variables; ++v) values[static_cast<std::size_t>(v)] = solver.value(cw::lit(v));
+        std::size_t failed = 0;
+        EXPECT_TRUE(cw::bench::satisfies(f, values, &failed)) << f.name << ": row " << f.rows[failed].label;
+      }
+    }
+    EXPECT_EQ(status[0], status[1]) << f.name;
+    if (f.family != "assignment") {
+      EXPECT_GT(group_picks, 0U) << f.name;
+    }
+  }
+}
+
+}  // namespace
+
+namespace {
+
+// The policies on rows with groups (seeded): the cheap choice equals the pick
+// from every size measured in full, and `propagating` takes a group method
+// exactly when one has fewer clauses than the group-blind pick and is
+// arc-consistent where that pick is (README "Choosing an encoding").
+TEST(GroupPolicy, CheapChoiceAndTheUpgradeRule) {
+  std::uint64_t upgrades = 0;
+  for (std::uint32_t seed = 1; seed <= 120; ++seed) {
+    std::mt19937_64 rng(seed);
+    const auto raw = cw_test::random_grouped(rng, static_cast<std::int32_t>(4 + rng() % 12), 9, false);
+    const cw::normalized_constraint c = raw.normalized();
+    if (c.kind != cw::constraint_kind::linear || !c.has_groups()) continue;
+    const cw::variable_pool pool(raw.max_var());
+    const auto all = cw::measure_all(pool, c);
+    for (const auto policy : cw::all_policies)
+      EXPECT_EQ(cw::select_method(pool, c, policy), cw::pick(all, policy, c))
+          << "seed " << seed << " policy " << cw::to_string(policy) << ": " << raw.describe();
+    // The rule, from the full measurements.
+    std::vector<cw::method_measurement> blind;
+    for (const auto& m : all)
+      if (!cw::info(m.method).needs_groups) blind.push_back(m);
+    const cw::method_id b = cw::pick(blind, cw::selection_policy::propagating, c);
+    std::uint64_t blind_clauses = 0;
+    for (const auto& m : blind)
+      if (m.method == b) blind_clauses = m.size.clauses;
+    std::optional<cw::method_id> expected;
+    std::uint64_t least = 0;
+    for (const auto& m : all) {
+      const auto& i = cw::info(m.method);
+      if (!i.needs_groups || m.over_budget || m.size.clauses >= blind_clauses) continue;
+      if (cw::info(b).arc_consistent && !i.arc_consistent) continue;
+      if (!expected || m.size.clauses < least) {
+        expected = m.method;
+        least = m.size.clauses;
+      }
+    }
+    const cw::method_id got = cw::select_method(pool, c, cw::selection_policy::propagating);
+    if (expected) {
+      EXPECT_TRUE(cw::info(got).needs_groups) << "seed " << seed << ": " << raw.describe();
+      EXPECT_EQ(cw::measure(got, pool, c).size.clauses, least) << "seed " << seed;
+      ++upgrades;
+    } else {
+      EXPECT_EQ(got, b) << "seed " << seed << ": " << raw.describe();
+    }
+  }
+  EXPECT_GT(upgrades, 10U);
+}
+
+// The shape cache keys on the grouping: the same coefficients with and
+// without groups never share a pick.
+TEST(GroupPolicy, ShapesDifferingInGroupingDoNotSharePicks) {
+  cw_test::raw_constraint raw;
+  for (std::int32_t v = 1; v <= 8; ++v) raw.terms.push_back({1 + v % 4, cw::lit(v)});
+  raw.bound = 7;
+  const cw::normalized_constraint blind = raw.normalized();
+  raw.amos = {{cw::lit(1), cw::lit(2), cw::lit(3), cw::lit(4)}, {cw::lit(5), cw::lit(6), cw::lit(7), cw::lit(8)}};
+  const cw::normalized_constraint grouped = raw.normalized();
+  ASSERT_TRUE(grouped.has_groups());
+  const cw::variable_pool pool(8);
+  cw::method_chooser chooser;
+  const cw::choice_settings s;
+  const cw::method_id first = chooser.pick(pool, blind, s);
+  const cw::method_id second = chooser.pick(pool, grouped, s);
+  EXPECT_FALSE(cw::info(first).needs_groups);
+  EXPECT_EQ(second, cw::select_method(pool, grouped));
+  EXPECT_TRUE(cw::info(second).needs_groups) << cw::info(second).name;
+  EXPECT_NE(cw::shape_of(blind, s), cw::shape_of(grouped, s));
 }
 
 }  // namespace

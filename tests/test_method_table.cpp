@@ -11,6 +11,7 @@
 #include <gtest/gtest.h>
 
 #include <random>
+#include <string>
 
 #include "harness.hpp"
 
@@ -26,8 +27,12 @@ struct measured {
 
 measured measure_method(cw::method_id method, bool equalities) {
   measured m;
+  const bool grouped = cw::info(method).needs_groups;
   auto take = [&](const cw_test::raw_constraint& c, std::uint32_t seed) {
     if ((c.rel == cw::relation::eq) != equalities) return;
+    // A group method is measured with the at-most-one sets it relies on in
+    // the formula; the others on rows alone.
+    if (c.amos.empty() == grouped) return;
     if (!cw::can_encode(method, c.normalized())) return;
     const auto r = cw_test::measure_propagation(c, method, {}, seed);
     ++m.constraints;
@@ -45,6 +50,12 @@ measured measure_method(cw::method_id method, bool equalities) {
   for (std::uint32_t seed = 1; seed <= 200; ++seed) {
     std::mt19937_64 rng(seed);
     const auto c = cw_test::random_linear(rng, static_cast<std::int32_t>(2 + rng() % 6), 9, true, false);
+    take(c, seed);
+  }
+  // Rows over at-most-one groups (seeded), for the group methods.
+  for (std::uint32_t seed = 1; grouped && seed <= 300; ++seed) {
+    std::mt19937_64 rng(seed);
+    const auto c = cw_test::random_grouped(rng, static_cast<std::int32_t>(3 + rng() % 6), 9, seed % 5 == 0);
     take(c, seed);
   }
   return m;
@@ -80,4 +91,35 @@ TEST(MethodTable, ArcConsistencyClaimsMatchMeasurement) {
                 static_cast<unsigned long long>(m.constraints),
                 eq.arc_consistent ? "arc-consistent" : ("not (" + eq.counterexample + ")").c_str());
   }
+}
+
+// Semantics and full equivalence of the group methods with their at-most-one
+// sets in the formula: exhaustively over the inputs (CaDiCaL decides each
+// assignment, the row and the sets are evaluated directly), and with
+// full_equivalence every auxiliary variable a function of the inputs.
+TEST(MethodTable, GroupMethodsEquivalentWithTheirAtMostOneSets) {
+  for (const auto& info : cw::method_table) {
+    if (!info.needs_groups) continue;
+    std::uint64_t checked = 0;
+    for (std::uint32_t seed = 1; seed <= 150; ++seed) {
+      std::mt19937_64 rng(seed);
+      const auto c = cw_test::random_grouped(rng, static_cast<std::int32_t>(2 + rng() % 9), 7, seed % 4 == 0);
+      if (!cw::can_encode(info.id, c.normalized())) continue;
+      for (const bool full : {false, true}) {
+        EXPECT_TRUE(cw_test::equivalent(c, info.id, cw::encode_options{full}, "seed " + std::to_string(seed)));
+        ++checked;
+      }
+    }
+    EXPECT_GT(checked, 100U) << info.name;
+  }
+}
+
+// A group method does not apply to a row without a group of two literals.
+TEST(MethodTable, GroupMethodsNeedGroups) {
+  std::mt19937_64 rng(7);
+  const auto c = cw_test::random_linear(rng, 6, 9, false, false);
+  for (const auto& info : cw::method_table)
+    if (info.needs_groups) {
+      EXPECT_FALSE(cw::can_encode(info.id, c.normalized())) << info.name;
+    }
 }

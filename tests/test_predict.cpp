@@ -147,3 +147,26 @@ TEST(Predict, SortingNetworkCountIsBatchers) {
     EXPECT_EQ(p->clauses, 6 * batcher + 1) << "t=" << t;  // and the unit ~c_(k+1)
   }
 }
+
+// The group methods' predictions (rows over at-most-one groups, seeded):
+// every field equal to the dry run.
+TEST(Predict, GroupMethodsEqualTheDryRun) {
+  std::uint64_t predicted = 0;
+  for (std::uint32_t seed = 1; seed <= 300; ++seed) {
+    std::mt19937_64 rng(seed);
+    const auto raw = cw_test::random_grouped(rng, static_cast<std::int32_t>(2 + rng() % 14), 12, seed % 6 == 0);
+    const cw::normalized_constraint c = raw.normalized();
+    for (const auto& m : cw::method_table) {
+      if (!m.needs_groups || !cw::can_encode(m.id, c)) continue;
+      for (const bool full : {false, true}) {
+        const cw::encode_options options{full};
+        const auto p = cw::predict_size(m.id, c, options);
+        if (!p) continue;
+        const auto d = cw::dry_run(m.id, cw::variable_pool(raw.max_var()), c, options);
+        EXPECT_EQ(*p, d.size) << m.name << " seed " << seed << ": " << raw.describe();
+        ++predicted;
+      }
+    }
+  }
+  EXPECT_GT(predicted, 50U);
+}

@@ -81,8 +81,16 @@ struct normalized_constraint {
   std::vector<literal> units;  // literals the constraint forces true
   std::size_t index = 0;       // constraint index, for messages
   std::string name;            // constraint name, for messages (may be empty)
+  // The at-most-one groups of the literals (groups.hpp): group_of[i] is the
+  // group of literals[i], numbered from 0 in order of first appearance. Empty
+  // when no group has two literals; then only the group-blind methods apply.
+  // The group-aware methods are correct only with the at-most-one
+  // constraints the groups come from in the same formula.
+  std::vector<std::uint32_t> group_of = {};
 
   [[nodiscard]] std::size_t size() const noexcept { return literals.size(); }
+  // Whether some group has two literals or more (group_of is kept empty otherwise).
+  [[nodiscard]] bool has_groups() const noexcept { return !group_of.empty(); }
   [[nodiscard]] bool unit_coefficients() const noexcept {
     return kind == constraint_kind::clause || kind == constraint_kind::at_most_one ||
            kind == constraint_kind::exactly_one || kind == constraint_kind::cardinality;
@@ -369,6 +377,7 @@ template <class ValueOf>
 // encode >= through <= (the published way for several of them).
 [[nodiscard]] inline normalized_constraint negated_view(const normalized_constraint& c) {
   normalized_constraint n = c;
+  n.group_of.clear();  // the negated literals of a group are not at-most-one
   for (literal& l : n.literals) l = ~l;
   n.bound = c.coefficient_sum() - c.bound;
   n.rel = c.rel == relation::le ? relation::ge : (c.rel == relation::ge ? relation::le : relation::eq);

@@ -16,6 +16,7 @@
 #include <vector>
 
 #include "constraint.hpp"
+#include "groups.hpp"
 #include "methods.hpp"
 #include "pipeline.hpp"
 #include "pool.hpp"
@@ -71,6 +72,14 @@ class encoder {
   encoded_constraint linear(std::initializer_list<term> terms, relation rel, std::int64_t bound,
                             std::optional<method_id> m = {}) {
     return linear(std::span<const term>(terms.begin(), terms.size()), rel, bound, m);
+  }
+  // A row stated with its at-most-one groups: the terms of each group, at
+  // most one of whose literals the caller guarantees true (state that as a
+  // constraint too: the group methods rely on it). The group methods of the
+  // table apply to it, and the policy weighs them (groups.hpp).
+  encoded_constraint linear_groups(std::span<const std::vector<term>> groups, relation rel, std::int64_t bound,
+                                   std::optional<method_id> m = {}) {
+    return add(normalize_groups(groups, rel, bound, next_), m);
   }
   encoded_constraint at_most_one(std::initializer_list<literal> lits, std::optional<method_id> m = {}) {
     return at_most_one(std::span<const literal>(lits.begin(), lits.size()), m);

@@ -85,17 +85,6 @@ struct grouped_constraint {
   [[nodiscard]] error_position where() const { return at_constraint(index, name); }
 };
 
-// What the method table needs to know about a group-aware encoding, for the
-// row it gets when the encodings are wired into the table: each encoding
-// file defines one (name, source, size, propagation, relations).
-struct group_method_note {
-  std::string_view name;
-  std::string_view source;
-  std::string_view size_note;
-  std::string_view propagation;  // as measured by tests/test_groups.cpp
-  std::string_view relations;    // what it encodes, and what it does not
-};
-
 // The literals of a constraint that says "at most one of them": at-most-one,
 // exactly-one (a cardinality <= 1 normalises to at-most-one). Empty for any
 // other kind.
@@ -107,15 +96,21 @@ struct group_method_note {
 // The model's at-most-one sets by literal, built once for all its rows.
 class at_most_one_index {
  public:
+  at_most_one_index() = default;
   explicit at_most_one_index(std::span<const std::vector<literal>> sets) {
-    if (sets.size() >= std::numeric_limits<std::uint32_t>::max())
-      throw error(error_id::over_budget, "too many at-most-one sets to index");
-    for (std::size_t s = 0; s < sets.size(); ++s)
-      for (const literal l : sets[s]) {
-        auto& list = by_literal_[l.dimacs()];
-        if (list.empty() || list.back() != s) list.push_back(static_cast<std::uint32_t>(s));
-      }
+    for (const auto& set : sets) add(set);
   }
+  // Adds one more set (after the others in the greedy's order of ties).
+  void add(std::span<const literal> set) {
+    if (sets_ >= std::numeric_limits<std::uint32_t>::max() - 1)
+      throw error(error_id::over_budget, "too many at-most-one sets to index");
+    const std::uint32_t s = sets_++;
+    for (const literal l : set) {
+      auto& list = by_literal_[l.dimacs()];
+      if (list.empty() || list.back() != s) list.push_back(s);
+    }
+  }
+  [[nodiscard]] std::uint32_t size() const noexcept { return sets_; }
   // The sets holding literal l (with that polarity), in the given order.
   [[nodiscard]] std::span<const std::uint32_t> sets_of(literal l) const {
     const auto it = by_literal_.find(l.dimacs());
@@ -125,24 +120,19 @@ class at_most_one_index {
 
  private:
   std::unordered_map<std::int32_t, std::vector<std::uint32_t>> by_literal_;
+  std::uint32_t sets_ = 0;
 };
 
-// Partitions the literals of `c` into groups by the indexed at-most-one sets
-// (rule above). A constant `c` gives a constant grouped constraint. Time:
-// the row's literals times the sets holding each, times log of that.
-[[nodiscard]] inline grouped_constraint group_constraint(const normalized_constraint& c,
-                                                         const at_most_one_index& index) {
-  grouped_constraint g;
-  g.rel = c.rel;
-  g.bound = c.bound;
-  g.units = c.units;
-  g.index = c.index;
-  g.name = c.name;
-  if (c.is_constant()) {
-    g.kind = c.kind;
-    return g;
-  }
-  g.kind = constraint_kind::linear;
+namespace detail {
+
+// The groups of the literals of `c` by the indexed at-most-one sets (rule
+// above): the group of each position, the greedy groups first (numbered in
+// the order taken), then the singletons in position order. Empty when no set
+// covers two literals of the row. Time: the row's literals times the sets
+// holding each, times log of that.
+[[nodiscard]] inline std::vector<std::uint32_t> group_ids(const normalized_constraint& c,
+                                                          const at_most_one_index& index) {
+  if (c.is_constant() || c.kind == constraint_kind::clause || c.size() < 2) return {};
   // For each set touching the row, the row positions it covers; for each
   // position, the sets covering it.
   std::unordered_map<std::uint32_t, std::size_t> local;  // set -> index into covers
@@ -167,28 +157,57 @@ class at_most_one_index {
     live[k] = covers[k].size();
     if (live[k] >= 2) heap.emplace(live[k], -static_cast<std::int64_t>(set_id[k]));
   }
-  std::vector<char> taken(c.size(), 0);
+  if (heap.empty()) return {};
+  constexpr std::uint32_t none = std::numeric_limits<std::uint32_t>::max();
+  std::vector<std::uint32_t> ids(c.size(), none);
+  std::uint32_t next = 0;
   while (!heap.empty()) {
     const auto [n, minus_id] = heap.top();
     heap.pop();
     const std::size_t k = local.at(static_cast<std::uint32_t>(-minus_id));
     if (n != live[k]) continue;  // stale
-    std::vector<term> group;
     for (const std::size_t i : covers[k]) {
-      if (taken[i] != 0) continue;
-      taken[i] = 1;
-      group.push_back({c.coefficients[i], c.literals[i]});
+      if (ids[i] != none) continue;
+      ids[i] = next;
       for (const std::size_t other : sets_at[i]) {
         --live[other];
         if (other != k && live[other] >= 2) heap.emplace(live[other], -static_cast<std::int64_t>(set_id[other]));
       }
     }
-    g.groups.push_back(std::move(group));
+    ++next;
   }
+  for (std::uint32_t& id : ids)
+    if (id == none) id = next++;
+  return ids;
+}
+
+}  // namespace detail
+
+// The grouped form of `c` by its own groups (c.group_of; none: every literal
+// a singleton). The groups may show the row constant: a group contributes at
+// most its largest coefficient, so the sum never passes the sum of those
+// maxima.
+[[nodiscard]] inline grouped_constraint grouped_view(const normalized_constraint& c) {
+  grouped_constraint g;
+  g.rel = c.rel;
+  g.bound = c.bound;
+  g.units = c.units;
+  g.index = c.index;
+  g.name = c.name;
+  if (c.is_constant()) {
+    g.kind = c.kind;
+    return g;
+  }
+  g.kind = constraint_kind::linear;
+  const bool grouped = c.group_of.size() == c.size();
+  std::size_t count = 0;
   for (std::size_t i = 0; i < c.size(); ++i)
-    if (taken[i] == 0) g.groups.push_back({term{c.coefficients[i], c.literals[i]}});
-  // The groups may show the row constant: a group contributes at most its
-  // largest coefficient, so the sum never passes the sum of those maxima.
+    count = std::max<std::size_t>(count, grouped ? std::size_t{c.group_of[i]} + 1 : i + 1);
+  g.groups.resize(count);
+  for (std::size_t i = 0; i < c.size(); ++i)
+    g.groups[grouped ? c.group_of[i] : i].push_back(term{c.coefficients[i], c.literals[i]});
+  g.groups.erase(std::remove_if(g.groups.begin(), g.groups.end(), [](const auto& x) { return x.empty(); }),
+                 g.groups.end());
   const std::int64_t most = g.maximum_sum();
   if (g.rel == relation::le && most <= g.bound) {
     g.kind = constraint_kind::constant_true;
@@ -198,6 +217,24 @@ class at_most_one_index {
     g.groups.clear();
   }
   return g;
+}
+
+// Finds the groups of a cardinality or linear row by the indexed at-most-one
+// sets (rule above) and records them in c.group_of; other kinds, and rows no
+// set covers twice, keep none.
+inline void assign_groups(normalized_constraint& c, const at_most_one_index& index) {
+  c.group_of.clear();
+  if (c.kind != constraint_kind::cardinality && c.kind != constraint_kind::linear) return;
+  c.group_of = detail::group_ids(c, index);
+}
+
+// Partitions the literals of `c` into groups by the indexed at-most-one sets
+// (rule above). A constant `c` gives a constant grouped constraint.
+[[nodiscard]] inline grouped_constraint group_constraint(const normalized_constraint& c,
+                                                         const at_most_one_index& index) {
+  normalized_constraint grouped = c;
+  grouped.group_of = detail::group_ids(c, index);
+  return grouped_view(grouped);
 }
 
 // The same with the sets given as lists of literals (indexed on the fly; for
@@ -225,6 +262,27 @@ class at_most_one_index {
   }
   const normalized_constraint c = normalize(all, rel, bound, index, std::move(name));
   return group_constraint(c, sets);
+}
+
+// The same row normalised for the pipeline, its groups in group_of (for
+// encode_with, the encoder and the method table's group methods).
+[[nodiscard]] inline normalized_constraint normalize_groups(std::span<const std::vector<term>> groups, relation rel,
+                                                            std::int64_t bound, std::size_t index = 0,
+                                                            std::string name = {}) {
+  std::vector<term> all;
+  at_most_one_index sets;
+  std::vector<literal> set;
+  for (const auto& group : groups) {
+    set.clear();
+    for (const term& t : group) {
+      all.push_back(t);
+      set.push_back(t.lit);
+    }
+    sets.add(set);
+  }
+  normalized_constraint c = normalize(all, rel, bound, index, std::move(name));
+  assign_groups(c, sets);
+  return c;
 }
 
 // One literal y per set of literals of one group and one coefficient, shared

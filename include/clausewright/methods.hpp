@@ -39,6 +39,7 @@ struct method_info {
   std::string_view size_note;  // closed-form size where published, else empty
   std::string_view limits;     // what stops it before the clause budget does
   bool objective_bound;        // an incremental objective bound sits on it
+  bool needs_groups;           // only rows with at-most-one groups (groups.hpp)
 
   [[nodiscard]] constexpr bool applies_to_kind(applies a) const noexcept {
     return (applies_to & static_cast<std::uint8_t>(a)) != 0;
@@ -47,7 +48,8 @@ struct method_info {
 
 namespace detail {
 [[nodiscard]] constexpr method_info row(method_id id, const encoding_descriptor& d) noexcept {
-  return {id, d.name, d.applies_to, d.arc_consistent, d.source, d.size_note, d.limits, d.objective_bound};
+  return {id,          d.name,   d.applies_to,      d.arc_consistent, d.source,
+          d.size_note, d.limits, d.objective_bound, d.needs_groups};
 }
 template <class E>
 concept predicts = requires(const normalized_constraint& c, const encode_options& o) {
@@ -112,6 +114,20 @@ inline constexpr std::array method_table{
     case constraint_kind::constant_false:
     case constraint_kind::clause:
       return true;
+    default:
+      break;
+  }
+  // A group method needs a group of two literals or more (see groups.hpp).
+  if (m.needs_groups) {
+    if (!c.has_groups()) return false;
+    return (c.kind == constraint_kind::cardinality && m.applies_to_kind(applies::cardinality)) ||
+           (c.kind == constraint_kind::linear && m.applies_to_kind(applies::linear));
+  }
+  switch (c.kind) {
+    case constraint_kind::constant_true:
+    case constraint_kind::constant_false:
+    case constraint_kind::clause:
+      return true;
     case constraint_kind::at_most_one:
     case constraint_kind::exactly_one:
       return m.applies_to_kind(applies::at_most_one) || m.applies_to_kind(applies::cardinality) ||
@@ -127,6 +143,12 @@ inline constexpr std::array method_table{
 // Throws method_not_applicable, naming the constraint, unless `id` can
 // encode `c`.
 inline void require_applicable(method_id id, const normalized_constraint& c) {
+  if (!can_encode(id, c) && info(id).needs_groups)
+    throw error(error_id::method_not_applicable,
+                "method " + std::string(info(id).name) + " needs at-most-one groups in the row (two or more of its " +
+                    "literals in one at-most-one, exactly-one or cardinality <= 1 constraint); this " +
+                    std::string(to_string(c.kind)) + " constraint has none",
+                c.where());
   if (!can_encode(id, c))
     throw error(
         error_id::method_not_applicable,

@@ -27,6 +27,16 @@
 //      that can encode it;
 //   3. the model's own choice for the constraint (an error when it cannot);
 //   4. the selection policy's pick.
+//
+// At-most-one groups (groups.hpp): every hard at-most-one, exactly-one and
+// cardinality <= 1 constraint is an at-most-one set; each linear or
+// cardinality row (and the objective bound) gets its groups from the sets
+// stated before it (a streamed model is read once, so a set counts from its
+// place in the file on) and from model_encoding_settings::at_most_one_sets.
+// A row with a group of two literals or more can be encoded by the group
+// methods of the table; the sets themselves are encoded as any constraint,
+// so the formula holds them, as those methods need. Soft sets do not count:
+// the formula does not enforce them.
 #pragma once
 
 #include <fnmatch.h>
@@ -44,6 +54,7 @@
 
 #include "constraint.hpp"
 #include "error.hpp"
+#include "groups.hpp"
 #include "literal.hpp"
 #include "methods.hpp"
 #include "model.hpp"
@@ -69,6 +80,33 @@ struct model_encoding_settings : choice_settings {
   std::vector<method_id> methods;
   // Adds "objective <= bound" as a hard constraint.
   std::optional<std::int64_t> objective_bound;
+  // Whether rows get their at-most-one groups (see the top of this file).
+  bool find_groups = true;
+  // At-most-one sets the caller vouches for beside the model's own: each
+  // must hold in the formula (stated as constraints, or implied by them).
+  std::vector<std::vector<literal>> at_most_one_sets = {};
+};
+
+// The model's at-most-one sets as they arrive, and the groups of each row.
+class group_finder {
+ public:
+  explicit group_finder(const model_encoding_settings& s) : enabled_(s.find_groups) {
+    for (const auto& set : s.at_most_one_sets) index_.add(set);
+  }
+  // Records `c` when it is a hard at-most-one set (`soft`: it is not), else
+  // gives a linear or cardinality row its groups.
+  void see(normalized_constraint& c, bool soft) {
+    if (!enabled_) return;
+    if (c.kind == constraint_kind::at_most_one || c.kind == constraint_kind::exactly_one) {
+      if (!soft) index_.add(c.literals);
+      return;
+    }
+    if (index_.size() != 0) assign_groups(c, index_);
+  }
+
+ private:
+  bool enabled_;
+  at_most_one_index index_;
 };
 
 // The clauses of product variable p = f1 & ... & fk, both directions:
@@ -264,7 +302,7 @@ class model_encoder final : public model_handler {
 
  public:
   model_encoder(Sink& sink, variable_pool& pool, model_encoding_settings settings = {})
-      : sink_(sink), pool_(pool), settings_(std::move(settings)) {}
+      : sink_(sink), pool_(pool), settings_(std::move(settings)), groups_(settings_) {}
 
   // Called after each constraint is written (comments, progress).
   std::function<void(const constraint_outcome&)> on_constraint;
@@ -304,7 +342,8 @@ class model_encoder final : public model_handler {
 
   void constraint(const constraint_view& v) override {
     ++summary_.constraints;
-    const normalized_constraint c = normalize_view(v);
+    normalized_constraint c = normalize_view(v);
+    groups_.see(c, v.soft());
     if (v.soft()) {
       if constexpr (!takes_costs) {
         ++summary_.skipped_soft;
@@ -327,7 +366,8 @@ class model_encoder final : public model_handler {
       v.index = summary_.constraints;
       v.position = objective_position_;
       v.file = file_;
-      const normalized_constraint c = normalize_view(v);
+      normalized_constraint c = normalize_view(v);
+      groups_.see(c, false);
       const std::optional<method_id> m = choose_method(v, c, settings_, pool_, &chooser_);
       write(c, m, 0, v.index, v.name, v.where());
     }
@@ -397,6 +437,7 @@ class model_encoder final : public model_handler {
   counting_sink current_;
   variable_pool& pool_;
   model_encoding_settings settings_;
+  group_finder groups_;
   method_chooser chooser_;
   model_encoding_summary summary_;
   std::vector<literal> scratch_;

@@ -20,7 +20,9 @@
 //     bound adds a comparator guarded by its own literal;
 //   - re-encoding: "objective <= j" encoded anew by any method of the table
 //     under a fresh activation literal, for every bound (correct for every
-//     objective, and the baseline the others are tested against).
+//     objective, and the baseline the others are tested against); with
+//     at-most-one sets given (bound_settings::at_most_one_sets) the group
+//     methods apply too.
 // The counters and the generalized totalizer keep outputs only up to a cut
 // (the first bound asked for, plus one); a later bound beyond the cut builds
 // a new structure with the larger cut (counted in rebuilds()), where the
@@ -54,6 +56,7 @@
 #include "encodings/sequential_weight_counter.hpp"
 #include "encodings/totalizer.hpp"
 #include "error.hpp"
+#include "groups.hpp"
 #include "literal.hpp"
 #include "methods.hpp"
 #include "pipeline.hpp"
@@ -126,6 +129,10 @@ struct bound_settings {
   std::optional<method_id> reencode_method;
   selection_policy policy = default_policy;
   std::uint64_t bdd_node_budget = default_bdd_node_budget;
+  // For `reencode`: at-most-one sets that hold in the formula (an assignment
+  // cost objective has one exactly-one per task): each bound gets its groups
+  // from them, so the group methods of the table apply (groups.hpp).
+  std::vector<std::vector<literal>> at_most_one_sets = {};
 };
 
 // Thrown out of a bound's construction when its interrupt check (see
@@ -321,11 +328,12 @@ template <class Sink>
 class reencode_bound final : public bound_backend {
  public:
   reencode_bound(Sink& out, variable_pool& pool, const normalized_objective& goal, const bound_settings& settings)
-      : out_(out), pool_(pool), goal_(goal), settings_(settings) {
+      : out_(out), pool_(pool), goal_(goal), settings_(settings), sets_(settings.at_most_one_sets) {
     for (std::size_t i = 0; i < goal.size(); ++i) terms_.push_back({goal.coefficients[i], goal.literals[i]});
   }
   literal at_most(std::int64_t k) override {
-    const normalized_constraint c = normalize(terms_, relation::le, k);
+    normalized_constraint c = normalize(terms_, relation::le, k);
+    if (sets_.size() != 0) assign_groups(c, sets_);
     choice_settings s;
     s.policy = settings_.policy;
     const std::optional<method_id> m = chooser_.choose(pool_, c, settings_.reencode_method, s);
@@ -341,6 +349,7 @@ class reencode_bound final : public bound_backend {
   variable_pool& pool_;
   const normalized_objective& goal_;
   bound_settings settings_;
+  at_most_one_index sets_;
   std::vector<term> terms_;
   method_chooser chooser_;
 };
@@ -357,8 +366,12 @@ class objective_bound {
 
  public:
   objective_bound(Sink& sink, variable_pool& pool, const objective& goal, bound_settings settings = {})
-      : out_(sink, counts_), pool_(pool), goal_(normalize_objective(goal)), settings_(settings), truth_(out_, pool_) {
-    method_ = settings.method;
+      : out_(sink, counts_),
+        pool_(pool),
+        goal_(normalize_objective(goal)),
+        settings_(std::move(settings)),
+        truth_(out_, pool_) {
+    method_ = settings_.method;
     if (method_ == bound_method::automatic)
       method_ = goal_.unit_coefficients() ? bound_method::totalizer : bound_method::bdd;
     if ((method_ == bound_method::sequential_counter || method_ == bound_method::totalizer) &&

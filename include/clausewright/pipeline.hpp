@@ -19,10 +19,12 @@
 // number of inputs and of forced literals, and a hash of the multiset of its
 // coefficients (two independent 64-bit sums of mixed coefficients, so order
 // does not matter and nothing of the size of the constraint is stored),
-// plus the settings. Models repeat shapes (one exactly-one per item, one
-// capacity per bin), so each shape is measured once.
+// the group structure (a multiset hash of the groups' coefficient multisets,
+// so rows that differ in grouping never share a pick), plus the settings. Models repeat shapes (one exactly-one per
+// item, one capacity per bin), so each shape is measured once.
 #pragma once
 
+#include <algorithm>
 #include <chrono>
 #include <cstdint>
 #include <optional>
@@ -58,7 +60,8 @@ struct choice_settings {
 struct constraint_shape {
   std::uint64_t coefficients_a = 0;  // multiset hashes of the coefficients
   std::uint64_t coefficients_b = 0;
-  std::uint64_t order = 0;  // hash of the coefficients in order (0 when unordered)
+  std::uint64_t order = 0;   // hash of the coefficients in order (0 when unordered)
+  std::uint64_t groups = 0;  // multiset hash of the groups' coefficient multisets (0: no groups)
   std::int64_t bound = 0;
   std::uint64_t inputs = 0;
   std::uint64_t units = 0;
@@ -84,15 +87,30 @@ namespace detail {
 struct shape_hash {
   std::size_t operator()(const constraint_shape& s) const noexcept {
     std::uint64_t h = s.coefficients_a;
-    for (const std::uint64_t x :
-         {s.coefficients_b, s.order, static_cast<std::uint64_t>(s.bound), s.inputs, s.units, s.budget, s.floor,
-          static_cast<std::uint64_t>(s.kind) | (static_cast<std::uint64_t>(s.rel) << 8U) |
-              (static_cast<std::uint64_t>(s.policy) << 16U) |
-              (s.full_equivalence ? std::uint64_t{1} << 24U : std::uint64_t{0})})
+    for (const std::uint64_t x : {s.coefficients_b, s.order, s.groups, static_cast<std::uint64_t>(s.bound), s.inputs,
+                                  s.units, s.budget, s.floor,
+                                  static_cast<std::uint64_t>(s.kind) | (static_cast<std::uint64_t>(s.rel) << 8U) |
+                                      (static_cast<std::uint64_t>(s.policy) << 16U) |
+                                      (s.full_equivalence ? std::uint64_t{1} << 24U : std::uint64_t{0})})
       h = mix64(h ^ x);
     return static_cast<std::size_t>(h);
   }
 };
+
+// The group structure of `c` as a multiset hash: per group, a multiset hash
+// of its coefficients; over the groups, a multiset hash of those. Rows that
+// differ in grouping (or only one of which has groups) get different values.
+[[nodiscard]] inline std::uint64_t group_shape(const normalized_constraint& c) {
+  if (!c.has_groups()) return 0;
+  std::size_t count = 0;
+  for (const std::uint32_t g : c.group_of) count = std::max<std::size_t>(count, std::size_t{g} + 1);
+  std::vector<std::uint64_t> per_group(count, 0);
+  for (std::size_t i = 0; i < c.size(); ++i)
+    per_group[c.group_of[i]] += mix64(static_cast<std::uint64_t>(c.coefficients[i]) ^ 0x5851F42D4C957F2DULL);
+  std::uint64_t h = 0x2545F4914F6CDD1DULL;
+  for (const std::uint64_t g : per_group) h += mix64(g);
+  return h;
+}
 
 }  // namespace detail
 
@@ -107,6 +125,7 @@ struct shape_hash {
     k.coefficients_b += detail::mix64(u ^ 0xD6E8FEB86659FD93ULL);
     if (ordered) k.order = detail::mix64(k.order ^ u);
   }
+  k.groups = detail::group_shape(c);
   k.bound = c.bound;
   k.inputs = c.size();
   k.units = c.units.size();

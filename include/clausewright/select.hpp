@@ -198,28 +198,73 @@ namespace detail {
 }
 }  // namespace detail
 
-// Picks from measurements by the policy. Throws when every method is over
-// budget (or none applies).
-[[nodiscard]] inline method_id pick(std::span<const method_measurement> measured, selection_policy policy,
-                                    const normalized_constraint& c) {
+namespace detail {
+// The policy's pick among the measurements `use` accepts.
+template <class Use>
+[[nodiscard]] const method_measurement* pick_among(std::span<const method_measurement> measured,
+                                                   selection_policy policy, const normalized_constraint& c, Use&& use) {
   const method_measurement* best = nullptr;
   const method_measurement* best_ac = nullptr;
   for (const auto& m : measured) {
-    if (m.over_budget) continue;
+    if (m.over_budget || !use(m.method)) continue;
     if (best == nullptr || detail::smaller(m, *best)) best = &m;
     if (info(m.method).arc_consistent && (best_ac == nullptr || detail::smaller(m, *best_ac))) best_ac = &m;
   }
-  if (measured.empty())
-    throw error(error_id::method_not_applicable,
-                "no method in the table encodes a " + std::string(to_string(c.kind)) + " constraint", c.where());
-  if (best == nullptr)
-    throw error(error_id::over_budget, "every applicable method is over its budget for this constraint", c.where());
+  if (best == nullptr) return nullptr;
   const std::uint64_t limit = detail::arc_consistent_limit(policy, c, best->size.clauses);
   for (const method_id preferred : detail::preferred_methods(policy, c))
     for (const auto& m : measured)
-      if (m.method == preferred && !m.over_budget && m.size.clauses <= limit) return m.method;
-  if (best_ac != nullptr && best_ac->size.clauses <= limit) return best_ac->method;
-  return best->method;
+      if (m.method == preferred && !m.over_budget && m.size.clauses <= limit) return &m;
+  if (best_ac != nullptr && best_ac->size.clauses <= limit) return best_ac;
+  return best;
+}
+
+// Whether `policy` weighs the group methods against the group-blind pick
+// (propagating) rather than as methods like the others.
+[[nodiscard]] constexpr bool upgrades_to_groups(selection_policy policy) noexcept {
+  return policy == selection_policy::propagating;
+}
+
+// The group method that wins against the group-blind pick `blind` (none:
+// every group-blind method over budget): fewer clauses, and arc-consistent
+// when the blind pick is; the smallest such. Null when none wins.
+[[nodiscard]] inline const method_measurement* group_upgrade(std::span<const method_measurement> measured,
+                                                             const method_measurement* blind) {
+  const method_measurement* best = nullptr;
+  for (const auto& m : measured) {
+    if (m.over_budget || !info(m.method).needs_groups) continue;
+    if (blind != nullptr) {
+      if (m.size.clauses >= blind->size.clauses) continue;
+      if (info(blind->method).arc_consistent && !info(m.method).arc_consistent) continue;
+    }
+    if (best == nullptr || detail::smaller(m, *best)) best = &m;
+  }
+  return best;
+}
+}  // namespace detail
+
+// Picks from measurements by the policy. Throws when every method is over
+// budget (or none applies). `propagating` picks among the group-blind methods
+// first, then takes a group method (groups.hpp) where one wins: fewer
+// clauses than that pick and arc-consistent when it is (README "Choosing an
+// encoding"); the other policies weigh the group methods as any other.
+[[nodiscard]] inline method_id pick(std::span<const method_measurement> measured, selection_policy policy,
+                                    const normalized_constraint& c) {
+  if (measured.empty())
+    throw error(error_id::method_not_applicable,
+                "no method in the table encodes a " + std::string(to_string(c.kind)) + " constraint", c.where());
+  const method_measurement* chosen = nullptr;
+  if (detail::upgrades_to_groups(policy)) {
+    const method_measurement* blind =
+        detail::pick_among(measured, policy, c, [](method_id id) { return !info(id).needs_groups; });
+    const method_measurement* group = detail::group_upgrade(measured, blind);
+    chosen = group != nullptr ? group : blind;
+  } else {
+    chosen = detail::pick_among(measured, policy, c, [](method_id) { return true; });
+  }
+  if (chosen == nullptr)
+    throw error(error_id::over_budget, "every applicable method is over its budget for this constraint", c.where());
+  return chosen->method;
 }
 
 // Measures every applicable method, in order of expected size, each stopped
@@ -236,10 +281,15 @@ namespace detail {
     std::size_t row;
   };
   std::vector<candidate> order;
+  std::vector<std::size_t> group_rows;  // measured after the others (propagating)
   bool any_ac = false;
   for (std::size_t row = 0; row < method_table.size(); ++row) {
     const method_info& m = method_table[row];
     if (!can_encode(m.id, c)) continue;
+    if (m.needs_groups && detail::upgrades_to_groups(policy)) {
+      group_rows.push_back(row);
+      continue;
+    }
     candidate k{m.id, predict_size(m.id, c, options), 0, row};
     k.least = k.exact ? k.exact->clauses : 0;  // the others in table order; their bounds when measured
     any_ac = any_ac || m.arc_consistent;
@@ -275,6 +325,17 @@ namespace detail {
       if (ac) best_ac = best_ac ? std::min(*best_ac, m.size.clauses) : m.size.clauses;
     }
     done.emplace_back(k.row, m);
+  }
+  if (!group_rows.empty()) {
+    // A group method wins only below the group-blind pick's clauses.
+    std::vector<method_measurement> blind;
+    blind.reserve(done.size());
+    for (const auto& d : done) blind.push_back(d.second);
+    const method_measurement* p = detail::pick_among(blind, policy, c, [](method_id) { return true; });
+    const std::uint64_t cut = p != nullptr ? p->size.clauses : clause_budget;
+    const std::uint64_t budget = std::min(clause_budget, std::max(cut, floor));
+    for (const std::size_t row : group_rows)
+      done.emplace_back(row, measure(method_table[row].id, pool, c, options, budget));
   }
   std::sort(done.begin(), done.end(), [](const auto& a, const auto& b) { return a.first < b.first; });
   std::vector<method_measurement> out;

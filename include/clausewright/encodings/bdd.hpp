@@ -42,14 +42,13 @@
 #include <cstdint>
 #include <functional>
 #include <limits>
-#include <map>
-#include <memory_resource>
 #include <numeric>
 #include <optional>
 #include <span>
 #include <string>
 #include <vector>
 
+#include "../detail/interval_memo.hpp"
 #include "../detail/subset_sums.hpp"
 #include "common.hpp"
 #include "descriptor.hpp"
@@ -121,8 +120,7 @@ class bdd_builder {
     rest_.assign(inputs_.size() + 1, 0);
     for (std::size_t i = inputs_.size(); i-- > 0;)
       rest_[i] = detail::checked_add(rest_[i + 1], weights_[i], where_, "the sum of the coefficients");
-    memo_.reserve(inputs_.size());
-    for (std::size_t i = 0; i < inputs_.size(); ++i) memo_.emplace_back(&arena_);
+    memo_.levels(inputs_.size());
   }
 
   // The root of the diagram for `bound`, building what is missing.
@@ -141,16 +139,12 @@ class bdd_builder {
   [[nodiscard]] std::uint64_t entries() const noexcept { return entries_; }
 
  private:
-  static constexpr std::int64_t minus_infinity = std::numeric_limits<std::int64_t>::min();
-  static constexpr std::int64_t plus_infinity = std::numeric_limits<std::int64_t>::max();
+  static constexpr std::int64_t minus_infinity = detail::interval_minus_infinity;
+  static constexpr std::int64_t plus_infinity = detail::interval_plus_infinity;
 
   struct result {
     std::int64_t beta = 0;
     std::int64_t gamma = 0;
-    bdd_ref ref;
-  };
-  struct memo_entry {
-    std::int64_t gamma;
     bdd_ref ref;
   };
   struct frame {
@@ -170,17 +164,8 @@ class bdd_builder {
       if (k < 0 || k > rest) return result{k, k, bdd_ref{bdd_ref::false_terminal}};
       if (rest == 0) return result{k, k, bdd_ref{bdd_ref::true_terminal}};  // k == 0 at the bottom
     }
-    const auto& level_memo = memo_[level];
-    auto it = level_memo.upper_bound(k);
-    if (it == level_memo.begin()) return std::nullopt;
-    --it;
-    if (it->second.gamma >= k) return result{it->first, it->second.gamma, it->second.ref};
+    if (const auto kept = memo_.find(level, k)) return result{kept->beta, kept->gamma, kept->ref};
     return std::nullopt;
-  }
-
-  static std::int64_t shift(std::int64_t bound, std::int64_t weight) noexcept {
-    if (bound == minus_infinity || bound == plus_infinity) return bound;
-    return bound + weight;  // finite bounds stay within the coefficient sum
   }
 
   // Both children known: the node (or the shared child) and its interval.
@@ -188,8 +173,8 @@ class bdd_builder {
     result r;
     if (shape_ == bdd_shape::at_most) {
       const std::int64_t w = weights_[level];
-      r.beta = std::max(low.beta, shift(high.beta, w));
-      r.gamma = std::min(low.gamma, shift(high.gamma, w));
+      r.beta = std::max(low.beta, detail::interval_shift(high.beta, w));
+      r.gamma = std::min(low.gamma, detail::interval_shift(high.gamma, w));
     } else {
       r.beta = r.gamma = k;
     }
@@ -206,7 +191,7 @@ class bdd_builder {
       nodes_.push_back(bdd_node{pool_.fresh(), level, high.ref, low.ref, r.beta, r.gamma});
       emit_node(nodes_.back());
     }
-    memo_[level].emplace(r.beta, memo_entry{r.gamma, r.ref});
+    memo_.keep(level, r.beta, r.gamma, r.ref);
     ++entries_;
     return r;
   }
@@ -304,8 +289,7 @@ class bdd_builder {
   std::vector<std::int64_t> weights_;
   std::vector<std::int64_t> rest_;
   // Memo nodes come from one arena, released at once with the builder.
-  std::pmr::monotonic_buffer_resource arena_;
-  std::vector<std::pmr::map<std::int64_t, memo_entry>> memo_;  // per level: beta -> [beta, gamma]
+  detail::interval_memo<bdd_ref> memo_;  // per level: beta -> [beta, gamma]
   std::vector<bdd_node> nodes_;
   std::uint64_t entries_ = 0;
 };

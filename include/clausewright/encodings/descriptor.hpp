@@ -43,6 +43,10 @@ struct encoding_descriptor {
   std::string_view size_note;    // closed-form size where published
   std::string_view limits;       // what stops it before the clause budget does
   bool objective_bound = false;  // an incremental objective bound sits on it (optimize.hpp)
+  // Applies only to rows with at-most-one groups (normalized_constraint::
+  // group_of, groups.hpp), and is correct only with the at-most-one
+  // constraints of the groups in the same formula.
+  bool needs_groups = false;
 };
 
 namespace detail {

@@ -43,6 +43,7 @@
 #include <vector>
 
 #include "../detail/subset_sums.hpp"
+#include "../detail/weighted_join.hpp"
 #include "common.hpp"
 #include "descriptor.hpp"
 
@@ -51,11 +52,6 @@ namespace clausewright {
 // Outputs over all nodes of one tree (about 50 bytes each while a node is
 // joined): 2^22 keeps the peak near 200 MiB.
 inline constexpr std::uint64_t default_generalized_totalizer_output_budget = std::uint64_t{1} << 22;
-
-struct weighted_output {
-  std::int64_t value;  // a reachable sum (cap stands for cap and above)
-  literal lit;
-};
 
 // The root of a generalized totalizer. Upper side: the inputs summing to w
 // (cap and above: to cap) set outputs[w], so sum <= K2 for any K2 < cap is
@@ -75,96 +71,22 @@ class generalized_totalizer_builder {
   generalized_totalizer_builder(Sink& out, variable_pool& pool, std::span<const literal> literals,
                                 std::span<const std::int64_t> coefficients, std::int64_t cap, sides which,
                                 std::uint64_t output_budget, error_position where)
-      : out_(out),
-        pool_(pool),
-        literals_(literals),
+      : literals_(literals),
         coefficients_(coefficients),
-        cap_(cap),
-        which_(which),
-        budget_(output_budget),
-        where_(std::move(where)) {}
+        joiner_(out, pool, cap, which, output_budget, std::move(where), "generalized totalizer") {}
 
   std::vector<weighted_output> build(std::size_t first, std::size_t last) {
-    if (last - first == 1) return {weighted_output{std::min(coefficients_[first], cap_), literals_[first]}};
+    if (last - first == 1) return {weighted_output{std::min(coefficients_[first], joiner_.cap()), literals_[first]}};
     const std::size_t middle = first + (last - first) / 2;
     const std::vector<weighted_output> left = build(first, middle);
     const std::vector<weighted_output> right = build(middle, last);
-    return join(left, right);
+    return joiner_.join(left, right);
   }
 
  private:
-  // Outputs of a child with the empty sum in front: value 0, always true.
-  static weighted_output at(const std::vector<weighted_output>& child, std::size_t i) {
-    return i == 0 ? weighted_output{0, literal()} : child[i - 1];
-  }
-
-  std::vector<weighted_output> join(const std::vector<weighted_output>& left,
-                                    const std::vector<weighted_output>& right) {
-    index_.clear();
-    index_.reserve(left.size() + right.size());
-    std::vector<weighted_output> outputs;
-    for (std::size_t i = 0; i <= left.size(); ++i) {
-      const weighted_output u = at(left, i);
-      for (std::size_t j = i == 0 ? 1 : 0; j <= right.size(); ++j) {
-        const weighted_output v = at(right, j);
-        const std::int64_t w = std::min(u.value + v.value, cap_);  // no overflow: at most the coefficient sum
-        auto [it, fresh] = index_.try_emplace(w, literal());
-        if (fresh) {
-          if (++made_ > budget_)
-            throw error(error_id::over_budget,
-                        "the generalized totalizer passed its budget of " + std::to_string(budget_) + " outputs",
-                        where_);
-          it->second = pool_.fresh();
-          outputs.push_back({w, it->second});
-        }
-        if (!has_upper(which_)) continue;
-        if (i == 0)
-          emit(out_, ~v.lit, it->second);
-        else if (j == 0)
-          emit(out_, ~u.lit, it->second);
-        else
-          emit(out_, ~u.lit, ~v.lit, it->second);
-      }
-    }
-    std::sort(outputs.begin(), outputs.end(),
-              [](const weighted_output& a, const weighted_output& b) { return a.value < b.value; });
-    if (has_lower(which_)) {
-      for (std::size_t i = 0; i <= left.size(); ++i) {
-        const std::int64_t u = at(left, i).value;
-        for (std::size_t j = 0; j <= right.size(); ++j) {
-          const std::int64_t t = u + at(right, j).value;
-          if (t >= cap_) break;  // right values increase
-          const auto next = std::upper_bound(outputs.begin(), outputs.end(), t,
-                                             [](std::int64_t x, const weighted_output& o) { return x < o.value; });
-          if (next == outputs.end()) continue;
-          // The inputs summing to at most t (left at most u, right at most v) clear o_next.
-          const bool left_more = i < left.size();
-          const bool right_more = j < right.size();
-          if (left_more && right_more)
-            emit(out_, left[i].lit, right[j].lit, ~next->lit);
-          else if (left_more)
-            emit(out_, left[i].lit, ~next->lit);
-          else if (right_more)
-            emit(out_, right[j].lit, ~next->lit);
-          else
-            emit(out_, ~next->lit);
-        }
-      }
-      for (std::size_t k = 1; k < outputs.size(); ++k) emit(out_, ~outputs[k].lit, outputs[k - 1].lit);
-    }
-    return outputs;
-  }
-
-  Sink& out_;
-  variable_pool& pool_;
   std::span<const literal> literals_;
   std::span<const std::int64_t> coefficients_;
-  std::int64_t cap_;
-  sides which_;
-  std::uint64_t budget_;
-  error_position where_;
-  std::uint64_t made_ = 0;
-  std::unordered_map<std::int64_t, literal> index_;  // reused across nodes
+  weighted_joiner<Sink> joiner_;
 };
 
 }  // namespace detail

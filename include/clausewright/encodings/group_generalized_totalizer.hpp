@@ -32,8 +32,10 @@
 // The clauses are correct only together with the at-most-one constraints of
 // the groups. Relations: <= builds the upper side (as published); >= goes
 // through detail::at_most_form (a "none" literal per group, the row over the
-// complements), = through both; full_equivalence (outputs defined in both
-// directions) is not available: the method throws method_not_applicable.
+// complements), = through both; full_equivalence builds both sides of every
+// join (detail::weighted_joiner) over order-encoded leaves, so every output
+// is defined in both directions; the reduced form then builds the unreduced
+// tree (its classes are defined one way only).
 // Propagation (with the groups' at-most-one clauses, pairwise, when the
 // at-most-one sets are exactly the groups): arc-consistent for <=, both forms
 // (measured in tests/test_groups.cpp); >= and = not in general (measured).
@@ -49,80 +51,76 @@
 
 #include "../groups.hpp"
 #include "common.hpp"
+#include "descriptor.hpp"
 #include "generalized_totalizer.hpp"
 
 namespace clausewright {
 
 namespace detail {
 
+// The tree over the groups; the joins are the generalized totalizer's
+// (detail::weighted_joiner). A leaf's outputs: for the upper side alone, the
+// group's literals (after merging equal coefficients), each standing for its
+// coefficient; with the lower side (full_equivalence), outputs that mean
+// "the group's value >= a" for each distinct coefficient a, as the join's
+// lower side needs of its children: fresh y_a with x -> y_(a_x), the chain
+// y_a -> y_a' for consecutive a' < a, and y_a -> (the x with a_x >= a), so
+// y_a <-> "some x with a_x >= a" (a single literal stays itself).
 template <class Sink>
 class group_totalizer_builder {
  public:
   group_totalizer_builder(Sink& out, variable_pool& pool, const std::vector<std::vector<term>>& leaves,
-                          std::int64_t cap, std::uint64_t output_budget, error_position where)
-      : out_(out), pool_(pool), leaves_(leaves), cap_(cap), budget_(output_budget), where_(std::move(where)) {}
+                          std::int64_t cap, sides which, std::uint64_t output_budget, error_position where)
+      : out_(out),
+        pool_(pool),
+        leaves_(leaves),
+        which_(which),
+        joiner_(out, pool, cap, which, output_budget, std::move(where), "group generalized totalizer") {}
 
   // Outputs of the subtree over leaves [first, last), sorted by value.
   std::vector<weighted_output> build(std::size_t first, std::size_t last) {
-    if (last - first == 1) {
-      std::vector<weighted_output> outputs;
-      for (const term& t : leaves_[first]) outputs.push_back({std::min(t.coefficient, cap_), t.lit});
-      std::sort(outputs.begin(), outputs.end(),
-                [](const weighted_output& a, const weighted_output& b) { return a.value < b.value; });
-      return outputs;
-    }
+    if (last - first == 1) return leaf(leaves_[first]);
     const std::size_t middle = first + (last - first) / 2;
     const std::vector<weighted_output> left = build(first, middle);
     const std::vector<weighted_output> right = build(middle, last);
-    return join(left, right);
+    return joiner_.join(left, right);
   }
 
-  [[nodiscard]] std::uint64_t outputs_made() const noexcept { return made_; }
+  [[nodiscard]] std::uint64_t outputs_made() const noexcept { return joiner_.outputs_made(); }
 
  private:
-  static weighted_output at(const std::vector<weighted_output>& child, std::size_t i) {
-    return i == 0 ? weighted_output{0, literal()} : child[i - 1];
-  }
-
-  std::vector<weighted_output> join(const std::vector<weighted_output>& left,
-                                    const std::vector<weighted_output>& right) {
-    index_.clear();
+  std::vector<weighted_output> leaf(const std::vector<term>& group) {
+    const std::int64_t cap = joiner_.cap();
     std::vector<weighted_output> outputs;
-    for (std::size_t i = 0; i <= left.size(); ++i) {
-      const weighted_output u = at(left, i);
-      for (std::size_t j = i == 0 ? 1 : 0; j <= right.size(); ++j) {
-        const weighted_output v = at(right, j);
-        const std::int64_t w = std::min(u.value + v.value, cap_);  // at most the coefficient sum
-        auto [it, fresh] = index_.try_emplace(w, literal());
-        if (fresh) {
-          if (++made_ > budget_)
-            throw error(error_id::over_budget,
-                        "the group generalized totalizer passed its budget of " + std::to_string(budget_) + " outputs",
-                        where_);
-          it->second = pool_.fresh();
-          outputs.push_back({w, it->second});
-        }
-        if (i == 0)
-          emit(out_, ~v.lit, it->second);
-        else if (j == 0)
-          emit(out_, ~u.lit, it->second);
-        else
-          emit(out_, ~u.lit, ~v.lit, it->second);
-      }
-    }
+    outputs.reserve(group.size());
+    for (const term& t : group) outputs.push_back({std::min(t.coefficient, cap), t.lit});
     std::sort(outputs.begin(), outputs.end(),
               [](const weighted_output& a, const weighted_output& b) { return a.value < b.value; });
-    return outputs;
+    if (!has_lower(which_) || outputs.size() == 1) return outputs;
+    // Order-encoded outputs, one per distinct value (increasing).
+    std::vector<weighted_output> ordered;
+    for (std::size_t i = 0; i < outputs.size();) {
+      std::size_t j = i + 1;
+      while (j < outputs.size() && outputs[j].value == outputs[i].value) ++j;
+      const literal y = pool_.fresh();
+      for (std::size_t k = i; k < j; ++k) emit(out_, ~outputs[k].lit, y);  // x -> y_(a_x)
+      if (!ordered.empty()) emit(out_, ~y, ordered.back().lit);            // y_a -> y_a'
+      some_.clear();
+      some_.push_back(~y);
+      for (std::size_t k = i; k < outputs.size(); ++k) some_.push_back(outputs[k].lit);
+      out_.add_clause(std::span<const literal>(some_));  // y_a -> some x with a_x >= a
+      ordered.push_back({outputs[i].value, y});
+      i = j;
+    }
+    return ordered;
   }
 
   Sink& out_;
   variable_pool& pool_;
   const std::vector<std::vector<term>>& leaves_;
-  std::int64_t cap_;
-  std::uint64_t budget_;
-  error_position where_;
-  std::uint64_t made_ = 0;
-  std::unordered_map<std::int64_t, literal> index_;  // reused across nodes
+  sides which_;
+  weighted_joiner<Sink> joiner_;
+  std::vector<literal> some_;
 };
 
 // The reduced form: at a node, two sums s < s' are the same output when no
@@ -301,41 +299,19 @@ class reduced_group_totalizer_builder {
 
 }  // namespace detail
 
-inline constexpr group_method_note group_generalized_totalizer_note{
-    "group-generalized-totalizer",
-    "Bofill, Coll, Nightingale, Suy, Ulrich-Oltean, Villaret 2022 (Artificial Intelligence 302); Joshi, Martins, "
-    "Manquinho 2015 (CP)",
-    "a node of children with p and q outputs (cut at K+1): (p+1)(q+1)-1 clauses; a leaf is a group, one output per "
-    "distinct coefficient",
-    "arc-consistent for <= together with the groups' at-most-one clauses; not for >= or =",
-    "<=; >= and = through a none literal per group; no full_equivalence (method_not_applicable); needs the "
-    "at-most-one constraints of the groups in the formula"};
-
-inline constexpr group_method_note group_reduced_generalized_totalizer_note{
-    "group-reduced-generalized-totalizer",
-    "Bofill, Coll, Nightingale, Suy, Ulrich-Oltean, Villaret 2022 (Artificial Intelligence 302)",
-    "as the group generalized totalizer with a node's outputs merged into classes of sums: at most K+1 outputs "
-    "per node, one at the root; bounds up to 2^24",
-    "arc-consistent for <= together with the groups' at-most-one clauses; not for >= or =",
-    "<=; >= and = through a none literal per group; no full_equivalence (method_not_applicable); needs the "
-    "at-most-one constraints of the groups in the formula"};
-
 template <class Sink>
 void encode_group_generalized_totalizer(Sink& out, variable_pool& pool, const grouped_constraint& c,
                                         const encode_options& options,
                                         std::uint64_t output_budget = default_generalized_totalizer_output_budget,
                                         group_literal_cache* cache = nullptr) {
-  if (options.full_equivalence)
-    throw error(error_id::method_not_applicable,
-                "group-generalized-totalizer defines its outputs in one direction only (no full equivalence)",
-                c.where());
+  const sides which = options.full_equivalence ? sides::both : sides::upper;
   detail::encode_groups_as_at_most(out, pool, c, [&](const grouped_constraint& le) {
     const std::int64_t cap = detail::checked_add(le.bound, 1, c.where(), "the bound plus one");
     std::vector<std::vector<term>> leaves;
     leaves.reserve(le.groups.size());
     for (const auto& g : le.groups)
-      leaves.push_back(detail::merge_equal_coefficients(out, pool, g, sides::upper, cache));
-    detail::group_totalizer_builder<Sink> builder(out, pool, leaves, cap, output_budget, c.where());
+      leaves.push_back(has_lower(which) ? g : detail::merge_equal_coefficients(out, pool, g, which, cache));
+    detail::group_totalizer_builder<Sink> builder(out, pool, leaves, cap, which, output_budget, c.where());
     const std::vector<weighted_output> root = builder.build(0, leaves.size());
     if (!root.empty() && root.back().value == cap) emit(out, ~root.back().lit);
   });
@@ -353,15 +329,54 @@ template <class Sink>
 void encode_group_reduced_generalized_totalizer(
     Sink& out, variable_pool& pool, const grouped_constraint& c, const encode_options& options,
     std::uint64_t output_budget = default_generalized_totalizer_output_budget, group_literal_cache* cache = nullptr) {
-  if (options.full_equivalence)
-    throw error(error_id::method_not_applicable,
-                "group-reduced-generalized-totalizer defines its outputs in one direction only (no full equivalence)",
-                c.where());
+  // Classes of sums are defined one way only: a full encoding is the
+  // unreduced tree with both sides.
+  if (options.full_equivalence) {
+    encode_group_generalized_totalizer(out, pool, c, options, output_budget, cache);
+    return;
+  }
   detail::encode_groups_as_at_most(out, pool, c, [&](const grouped_constraint& le) {
     detail::reduced_group_totalizer_builder<Sink> builder(out, pool, le.groups, le.bound, output_budget, c.where(),
                                                           cache);
     for (const weighted_output& o : builder.build()) emit(out, ~o.lit);
   });
 }
+
+// The method table's entries (methods.hpp).
+struct group_generalized_totalizer_encoding {
+  static constexpr encoding_descriptor descriptor{
+      "group-generalized-totalizer",
+      applies::cardinality | applies::linear,
+      false,
+      "Bofill, Coll, Nightingale, Suy, Ulrich-Oltean, Villaret 2022 (Artificial Intelligence 302); Joshi, Martins, "
+      "Manquinho 2015 (CP)",
+      "a node of children with p and q outputs (cut at K+1): (p+1)(q+1)-1 clauses; a leaf is a group, one output per "
+      "distinct coefficient",
+      "rows with at-most-one groups only, with their at-most-one constraints in the formula; a budget of 2^22 outputs",
+      false,
+      true};
+  template <class Sink>
+  static void encode(Sink& out, variable_pool& pool, const normalized_constraint& c, const encode_options& options) {
+    encode_group_generalized_totalizer(out, pool, grouped_view(c), options);
+  }
+};
+
+struct group_reduced_generalized_totalizer_encoding {
+  static constexpr encoding_descriptor descriptor{
+      "group-reduced-generalized-totalizer",
+      applies::cardinality | applies::linear,
+      false,
+      "Bofill, Coll, Nightingale, Suy, Ulrich-Oltean, Villaret 2022 (Artificial Intelligence 302)",
+      "as the group generalized totalizer with a node's outputs merged into classes of sums: at most K+1 outputs "
+      "per node, one at the root",
+      "rows with at-most-one groups only, with their at-most-one constraints in the formula; bounds up to 2^24; "
+      "with full_equivalence the unreduced tree",
+      false,
+      true};
+  template <class Sink>
+  static void encode(Sink& out, variable_pool& pool, const normalized_constraint& c, const encode_options& options) {
+    encode_group_reduced_generalized_totalizer(out, pool, grouped_view(c), options);
+  }
+};
 
 }  // namespace clausewright

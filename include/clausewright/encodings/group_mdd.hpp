@@ -58,17 +58,17 @@
 #include <cstdint>
 #include <functional>
 #include <limits>
-#include <map>
-#include <memory_resource>
 #include <numeric>
 #include <optional>
 #include <span>
 #include <string>
 #include <vector>
 
+#include "../detail/interval_memo.hpp"
 #include "../groups.hpp"
 #include "bdd.hpp"
 #include "common.hpp"
+#include "descriptor.hpp"
 
 namespace clausewright {
 
@@ -120,11 +120,14 @@ class group_mdd_builder {
     for (std::size_t i = layers_.size(); i-- > 0;)
       rest_[i] =
           detail::checked_add(rest_[i + 1], edge_weight_[layers_[i].first_edge], where_, "the sum of the group maxima");
-    memo_.reserve(layers_.size());
-    for (std::size_t i = 0; i < layers_.size(); ++i) memo_.emplace_back(&arena_);
+    memo_.levels(layers_.size());
   }
 
-  bdd_ref root(std::int64_t bound) { return build(bound).ref; }
+  bdd_ref root(std::int64_t bound) {
+    const bdd_ref r = build(bound).ref;
+    flush();
+    return r;
+  }
 
   [[nodiscard]] literal literal_of(bdd_ref r) const {
     CLAUSEWRIGHT_ASSERT(r.is_node(), "terminals have no literal");
@@ -135,8 +138,8 @@ class group_mdd_builder {
   [[nodiscard]] std::size_t layer_count() const noexcept { return layers_.size(); }
 
  private:
-  static constexpr std::int64_t minus_infinity = std::numeric_limits<std::int64_t>::min();
-  static constexpr std::int64_t plus_infinity = std::numeric_limits<std::int64_t>::max();
+  static constexpr std::int64_t minus_infinity = detail::interval_minus_infinity;
+  static constexpr std::int64_t plus_infinity = detail::interval_plus_infinity;
 
   struct layer {
     std::size_t first_edge = 0;  // into edge_weight_, edge_first_, edge_literal_
@@ -145,10 +148,6 @@ class group_mdd_builder {
   struct result {
     std::int64_t beta = 0;
     std::int64_t gamma = 0;
-    bdd_ref ref;
-  };
-  struct memo_entry {
-    std::int64_t gamma;
     bdd_ref ref;
   };
   struct frame {
@@ -161,17 +160,8 @@ class group_mdd_builder {
   std::optional<result> resolve(std::uint32_t level, std::int64_t k) const {
     if (k < 0) return result{minus_infinity, -1, bdd_ref{bdd_ref::false_terminal}};
     if (k >= rest_[level]) return result{rest_[level], plus_infinity, bdd_ref{bdd_ref::true_terminal}};
-    const auto& level_memo = memo_[level];
-    auto it = level_memo.upper_bound(k);
-    if (it == level_memo.begin()) return std::nullopt;
-    --it;
-    if (it->second.gamma >= k) return result{it->first, it->second.gamma, it->second.ref};
+    if (const auto kept = memo_.find(level, k)) return result{kept->beta, kept->gamma, kept->ref};
     return std::nullopt;
-  }
-
-  static std::int64_t shift(std::int64_t bound, std::int64_t weight) noexcept {
-    if (bound == minus_infinity || bound == plus_infinity) return bound;
-    return bound + weight;
   }
 
   // children[0] is the "none" child, children[e+1] the child of edge e.
@@ -181,8 +171,8 @@ class group_mdd_builder {
     bool all_same = true;
     for (std::size_t e = 0; e < l.edges; ++e) {
       const std::int64_t w = edge_weight_[l.first_edge + e];
-      r.beta = std::max(r.beta, shift(children[e + 1].beta, w));
-      r.gamma = std::min(r.gamma, shift(children[e + 1].gamma, w));
+      r.beta = std::max(r.beta, detail::interval_shift(children[e + 1].beta, w));
+      r.gamma = std::min(r.gamma, detail::interval_shift(children[e + 1].gamma, w));
       all_same = all_same && children[e + 1].ref == children[0].ref;
     }
     CLAUSEWRIGHT_ASSERT(r.beta <= k && k <= r.gamma, "MDD interval must contain its bound");
@@ -196,9 +186,10 @@ class group_mdd_builder {
         throw error(error_id::over_budget, "too many MDD nodes", where_);
       r.ref = bdd_ref{static_cast<std::int32_t>(variables_.size())};
       variables_.push_back(pool_.fresh());
-      emit_node(variables_.back(), l, children);
+      pending_.push_back({variables_.back(), level, pending_children_.size()});
+      for (std::size_t e = 0; e <= l.edges; ++e) pending_children_.push_back(children[e].ref);
     }
-    memo_[level].emplace(r.beta, memo_entry{r.gamma, r.ref});
+    memo_.keep(level, r.beta, r.gamma, r.ref);
     ++entries_;
     return r;
   }
@@ -267,24 +258,91 @@ class group_mdd_builder {
           out_, pool_, std::span<const literal>(inputs_).subspan(first, last - first), has_lower(which_), cache_);
     return edge_literal_[e];
   }
+  // Whether edge e (global index) is written through its literal: it is one
+  // literal already, it was made, rows share it (a cache), or two nodes or
+  // more of this diagram need it. An edge one node needs is written with its
+  // literals directly (a clause with ~y becomes one clause per literal, y in
+  // a clause becomes the literals): fewer clauses than defining y, and unit
+  // propagation derives the same.
+  [[nodiscard]] bool through_literal(std::size_t e) const {
+    return edge_first_[e + 1] - edge_first_[e] == 1 || edge_literal_[e].valid() || cache_ != nullptr || uses_[e] >= 2;
+  }
+  [[nodiscard]] std::span<const literal> edge_inputs(std::size_t e) const {
+    return std::span<const literal>(inputs_).subspan(edge_first_[e], edge_first_[e + 1] - edge_first_[e]);
+  }
 
-  void emit_node(literal v, const layer& l, std::span<const result> children) {
-    const bdd_ref none = children[0].ref;
-    auto child = [&](std::size_t e) { return children[e + 1].ref; };  // e local to the layer
-    auto edge = [&](std::size_t e) { return edge_literal(l.first_edge + e); };
+  // Which edges of a node its clauses mention (e local to the layer).
+  [[nodiscard]] bool node_uses(const layer& l, std::span<const bdd_ref> children, std::size_t e) const {
+    const bdd_ref none = children[0];
+    const bdd_ref child = children[e + 1];
+    if (has_upper(which_) && child != none) return true;
+    if (!has_lower(which_)) return false;
+    if (!child.is_false()) return true;
+    for (std::size_t f = e + 1; f <= l.edges; ++f) {
+      const bdd_ref target = f < l.edges ? children[f + 1] : none;
+      if (!target.is_false() && child != target) return true;
+    }
+    return false;
+  }
+
+  // Writes the nodes made since the last flush, once the uses of every edge
+  // by this diagram are known.
+  void flush() {
+    uses_.assign(edge_weight_.size(), 0);
+    for (const pending_node& n : pending_) {
+      const layer& l = layers_[n.level];
+      const auto children = std::span<const bdd_ref>(pending_children_).subspan(n.first_child, l.edges + 1);
+      for (std::size_t e = 0; e < l.edges; ++e)
+        if (node_uses(l, children, e)) ++uses_[l.first_edge + e];
+    }
+    for (const pending_node& n : pending_) {
+      const layer& l = layers_[n.level];
+      emit_node(n.variable, l, std::span<const bdd_ref>(pending_children_).subspan(n.first_child, l.edges + 1));
+    }
+    pending_.clear();
+    pending_children_.clear();
+  }
+
+  // The clause in clause_ plus ~(edge e): one clause with ~y, or one per
+  // literal of the edge.
+  void end_with_negated_edge(std::size_t e) {
+    if (satisfied_) return;
+    if (through_literal(e)) {
+      clause_.push_back(~edge_literal(e));
+      out_.add_clause(std::span<const literal>(clause_));
+      return;
+    }
+    clause_.push_back(literal());
+    for (const literal x : edge_inputs(e)) {
+      clause_.back() = ~x;
+      out_.add_clause(std::span<const literal>(clause_));
+    }
+  }
+  void add_edge(std::size_t e) {
+    if (through_literal(e)) {
+      clause_.push_back(edge_literal(e));
+    } else {
+      for (const literal x : edge_inputs(e)) clause_.push_back(x);
+    }
+  }
+
+  void emit_node(literal v, const layer& l, std::span<const bdd_ref> children) {
+    const bdd_ref none = children[0];
+    auto child = [&](std::size_t e) { return children[e + 1]; };  // e local to the layer
+    const std::size_t base = l.first_edge;
     if (has_upper(which_)) {
       begin(), add(~v), add_child(none, true), end();
       for (std::size_t e = 0; e < l.edges; ++e) {
         if (child(e) == none) continue;
-        const literal y = edge(e);
-        begin(), add(~v), add(~y), add_child(child(e), true), end();
+        if (through_literal(base + e)) (void)edge_literal(base + e);  // made before the clause is assembled
+        begin(), add(~v), add_child(child(e), true), end_with_negated_edge(base + e);
       }
     }
     if (has_lower(which_)) {
       for (std::size_t e = 0; e < l.edges; ++e) {
         if (child(e).is_false()) continue;
-        const literal y = edge(e);
-        begin(), add(v), add(~y), add_child(child(e), false), end();
+        if (through_literal(base + e)) (void)edge_literal(base + e);
+        begin(), add(v), add_child(child(e), false), end_with_negated_edge(base + e);
       }
       // Per edge e (and "none" last): v | ~c_e | the edges of larger
       // coefficient whose child differs from c_e.
@@ -292,16 +350,25 @@ class group_mdd_builder {
         const bdd_ref target = e < l.edges ? child(e) : none;
         if (target.is_false()) continue;
         for (std::size_t f = 0; f < e; ++f)
-          if (child(f) != target) (void)edge(f);  // made before the clause is assembled
+          if (child(f) != target && through_literal(base + f)) (void)edge_literal(base + f);
         begin();
         add(v);
         for (std::size_t f = 0; f < e; ++f)
-          if (child(f) != target) add(edge(f));
+          if (child(f) != target) add_edge(base + f);
         add_child(target, false);
         end();
       }
     }
   }
+
+  struct pending_node {
+    literal variable;
+    std::uint32_t level;
+    std::size_t first_child;  // into pending_children_: none, then one per edge
+  };
+  std::vector<pending_node> pending_;
+  std::vector<bdd_ref> pending_children_;
+  std::vector<std::uint32_t> uses_;  // per edge: nodes of the last flush that need it
 
   Sink& out_;
   variable_pool& pool_;
@@ -315,23 +382,13 @@ class group_mdd_builder {
   std::vector<std::size_t> edge_first_;  // edge e's literals: inputs_[edge_first_[e] .. edge_first_[e+1])
   std::vector<literal> edge_literal_;    // edge e's shared literal, once made
   std::vector<std::int64_t> rest_;       // rest_[g]: sum of the largest coefficients of layers g..
-  std::pmr::monotonic_buffer_resource arena_;
-  std::vector<std::pmr::map<std::int64_t, memo_entry>> memo_;  // per layer: beta -> [beta, gamma]
-  std::vector<literal> variables_;                             // node literals
-  std::vector<result> results_;                                // child results of the open frames
+  detail::interval_memo<bdd_ref> memo_;  // per level: beta -> [beta, gamma]
+  std::vector<literal> variables_;       // node literals
+  std::vector<result> results_;          // child results of the open frames
   std::vector<literal> clause_;
   bool satisfied_ = false;
   std::uint64_t entries_ = 0;
 };
-
-inline constexpr group_method_note group_mdd_note{
-    "group-mdd",
-    "Bofill, Coll, Suy, Villaret 2017 (IJCAI), 2020 (Artificial Intelligence Review); intervals as in Abío et al. "
-    "2012 (JAIR)",
-    "at most groups*(K+1) nodes, one variable each, plus one per edge of several literals; per node 1 + e clauses "
-    "(<=, e edges leading elsewhere than none), plus the lower side for >=, = and full",
-    "arc-consistent for <= and >= together with the groups' at-most-one clauses; not for =",
-    "<=, >=, =, full_equivalence; needs the at-most-one constraints of the groups in the formula"};
 
 template <class Sink>
 void encode_group_mdd(Sink& out, variable_pool& pool, const grouped_constraint& c, const encode_options& options,
@@ -362,5 +419,25 @@ void encode_group_mdd(Sink& out, variable_pool& pool, const grouped_constraint& 
       emit(out, ~builder.literal_of(r));
   }
 }
+
+// The method table's entry (methods.hpp).
+struct group_mdd_encoding {
+  static constexpr encoding_descriptor descriptor{
+      "group-mdd",
+      applies::cardinality | applies::linear,
+      true,
+      "Bofill, Coll, Suy, Villaret 2017 (IJCAI), 2020 (Artificial Intelligence Review); intervals as in Abio et al. "
+      "2012 (JAIR)",
+      "at most groups*(K+1) nodes, one variable each, plus one per edge of several literals; per node 1 + e clauses "
+      "(<=, e edges leading elsewhere than none), plus the lower side for >=, = and full",
+      "rows with at-most-one groups only, with their at-most-one constraints in the formula; a node budget "
+      "(default_bdd_node_budget)",
+      false,
+      true};
+  template <class Sink>
+  static void encode(Sink& out, variable_pool& pool, const normalized_constraint& c, const encode_options& options) {
+    encode_group_mdd(out, pool, grouped_view(c), options);
+  }
+};
 
 }  // namespace clausewright
