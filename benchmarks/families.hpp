@@ -701,33 +701,6 @@ inline cw::literal var(std::int32_t v) { return cw::literal(v); }
 
 // --- references -------------------------------------------------------------
 
-// The 0-1 knapsack's best packed value by dynamic programming over capacity
-// (textbook DP, O(n C)).
-inline std::int64_t knapsack_dp(const std::vector<std::int64_t>& weight, const std::vector<std::int64_t>& value,
-                                std::int64_t capacity) {
-  std::vector<std::int64_t> best(static_cast<std::size_t>(capacity) + 1, 0);
-  for (std::size_t i = 0; i < weight.size(); ++i)
-    for (std::int64_t c = capacity; c >= weight[i]; --c)
-      best[static_cast<std::size_t>(c)] =
-          std::max(best[static_cast<std::size_t>(c)], best[static_cast<std::size_t>(c - weight[i])] + value[i]);
-  return best[static_cast<std::size_t>(capacity)];
-}
-
-// Two-dimensional knapsack by DP over both capacities (small capacities).
-inline std::int64_t knapsack2_dp(const std::vector<std::int64_t>& w1, const std::vector<std::int64_t>& w2,
-                                 const std::vector<std::int64_t>& value, std::int64_t c1, std::int64_t c2) {
-  const auto width = static_cast<std::size_t>(c2) + 1;
-  std::vector<std::int64_t> best((static_cast<std::size_t>(c1) + 1) * width, 0);
-  for (std::size_t i = 0; i < value.size(); ++i)
-    for (std::int64_t a = c1; a >= w1[i]; --a)
-      for (std::int64_t b = c2; b >= w2[i]; --b) {
-        auto& here = best[static_cast<std::size_t>(a) * width + static_cast<std::size_t>(b)];
-        here = std::max(here, best[static_cast<std::size_t>(a - w1[i]) * width + static_cast<std::size_t>(b - w2[i])] +
-                                  value[i]);
-      }
-  return best.back();
-}
-
 // The optimum of the model as a 0-1 integer programme, by GLPK's branch and
 // cut; nothing when GLPK does not prove it within the time limit.
 inline std::optional<std::int64_t> glpk_optimum(const instance& m, int seconds = 60) {
@@ -784,7 +757,7 @@ inline std::optional<std::int64_t> glpk_optimum(const instance& m, int seconds =
 // --- generators ------------------------------------------------------------
 
 // Weights and values 1..1000, capacity half the weight sum; minimise the
-// value left behind. Reference: the DP.
+// value left behind. Reference: the DP (knapsack_optimum above).
 inline instance knapsack(int n, std::uint64_t seed) {
   std::mt19937_64 rng(seed);
   std::uniform_int_distribution<std::int64_t> d(1, 1000);
@@ -804,7 +777,7 @@ inline instance knapsack(int n, std::uint64_t seed) {
   }
   cap.bound = std::accumulate(w.begin(), w.end(), std::int64_t{0}) / 2;
   m.rows.push_back(cap);
-  m.optimum = total_value - knapsack_dp(w, v, cap.bound);
+  m.optimum = total_value - knapsack_optimum({w}, {cap.bound}, v);
   m.reference = "DP";
   m.natural_offset = total_value;
   m.natural_sign = -1;
@@ -836,7 +809,7 @@ inline instance multi_knapsack(int n, std::uint64_t seed) {
   r2.bound = std::accumulate(w2.begin(), w2.end(), std::int64_t{0}) / 2;
   m.rows = {r1, r2};
   const std::int64_t total = std::accumulate(v.begin(), v.end(), std::int64_t{0});
-  m.optimum = total - knapsack2_dp(w1, w2, v, r1.bound, r2.bound);
+  m.optimum = total - knapsack_optimum({w1, w2}, {r1.bound, r2.bound}, v);
   m.reference = "DP";
   m.natural_offset = total;
   m.natural_sign = -1;
