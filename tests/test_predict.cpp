@@ -79,8 +79,6 @@ TEST(Predict, NetworksEqualTheDryRunAtLargerSizes) {
   EXPECT_GT(predicted, 100U);
 }
 
-// Batcher 1968: (t^2 - t + 4) 2^(t-2) - 1 comparators sort 2^t inputs; the
-// predictor's count (clauses / 6 with both sides, every comparator full).
 // The weighted closed forms (the adder network's buckets and comparator,
 // the one-directional sequential weight counter) against the dry run, on
 // seeded random constraints of every relation, with and without full
@@ -135,6 +133,8 @@ TEST(Predict, LowerBoundsNeverPassTheDryRun) {
   EXPECT_GT(positive, 1000U);
 }
 
+// Batcher 1968: (t^2 - t + 4) 2^(t-2) - 1 comparators sort 2^t inputs; the
+// predictor's count (clauses / 6 with both sides, every comparator full).
 TEST(Predict, SortingNetworkCountIsBatchers) {
   // From t = 2: two inputs with k = 1 normalise to a clause.
   for (std::int32_t t = 2; t <= 12; ++t) {
