@@ -665,7 +665,6 @@ namespace optimize {
 
 namespace cw = clausewright;
 
-
 struct instance {
   std::string name;
   std::int32_t variables = 0;
@@ -738,8 +737,11 @@ inline std::optional<std::int64_t> glpk_optimum(const instance& m, int seconds =
       if (t.lit.negative()) shift += static_cast<double>(t.coefficient);
     }
     const double rhs = static_cast<double>(r.bound) - shift;
-    glp_set_row_bnds(lp, row, r.rel == cw::relation::le ? GLP_UP : r.rel == cw::relation::ge ? GLP_LO : GLP_FX, rhs,
-                     rhs);
+    glp_set_row_bnds(lp, row,
+                     r.rel == cw::relation::le   ? GLP_UP
+                     : r.rel == cw::relation::ge ? GLP_LO
+                                                 : GLP_FX,
+                     rhs, rhs);
   }
   glp_load_matrix(lp, static_cast<int>(ia.size()) - 1, ia.data(), ja.data(), ar.data());
   glp_iocp parameters;
